@@ -1,0 +1,83 @@
+// `npm test`: the same set-up as `npm start` against the tests' own cluster and a fresh database,
+// then svelte-check, Vitest (unit + integration on the real PostgreSQL) and Playwright (Debian's Chromium).
+// Every suite runs even when an earlier one fails; the last line is `N passed, N failed` over all of them.
+import { spawnSync } from 'node:child_process';
+import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
+import { join } from 'node:path';
+import { clusters, dataDir, databaseUrl, root } from './config.mjs';
+import { ensureBuild, ensureChromium, ensureDatabase, ensureDependencies, knex, log, startCluster } from './setup.mjs';
+
+const cluster = clusters.test;
+const testDatabaseUrl = databaseUrl(cluster);
+const resultsDir = join(dataDir, 'test-results');
+const only = process.argv.slice(2); // e.g. `npm test -- vitest` runs one suite
+
+ensureDependencies();
+ensureChromium();
+await startCluster(cluster);
+await ensureDatabase(cluster, cluster.database, { fresh: true });
+knex(['migrate:latest'], testDatabaseUrl);
+knex(['seed:run'], testDatabaseUrl);
+rmSync(resultsDir, { recursive: true, force: true });
+mkdirSync(resultsDir, { recursive: true });
+
+const env = {
+	...process.env,
+	DATABASE_URL: testDatabaseUrl,
+	LUGLINE_TEST_PG_PORT: String(cluster.port),
+	AUTH_SECRET: process.env.AUTH_SECRET ?? 'lugline-test-secret-not-for-production-000000',
+	NODE_ENV: 'test'
+};
+const tally = [];
+
+function step(name, command, args, extraEnv = {}) {
+	log(`── ${name} ──`);
+	const result = spawnSync(command, args, { stdio: 'inherit', cwd: root, env: { ...env, ...extraEnv } });
+	return result.status ?? 1;
+}
+
+function readJson(file) {
+	try {
+		return JSON.parse(readFileSync(file, 'utf8'));
+	} catch {
+		return null;
+	}
+}
+
+const node = process.execPath;
+const bin = (pkg, file) => join('node_modules', pkg, file);
+const wants = (suite) => only.length === 0 || only.includes(suite);
+
+if (wants('check')) {
+	step('svelte-kit sync', node, [bin('@sveltejs/kit', 'svelte-kit.js'), 'sync']);
+	const status = step('svelte-check', node, [bin('svelte-check', 'bin/svelte-check'), '--tsconfig', './tsconfig.json', '--fail-on-warnings']);
+	tally.push({ suite: 'svelte-check', passed: status === 0 ? 1 : 0, failed: status === 0 ? 0 : 1 });
+}
+
+if (wants('vitest')) {
+	const out = join(resultsDir, 'vitest.json');
+	const status = step('vitest', node, [bin('vitest', 'vitest.mjs'), 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${out}`]);
+	const report = readJson(out);
+	const passed = report?.numPassedTests ?? 0;
+	const failed = (report?.numFailedTests ?? 0) + (status !== 0 && !report?.numFailedTests ? 1 : 0);
+	tally.push({ suite: 'vitest', passed, failed });
+}
+
+if (wants('e2e')) {
+	ensureBuild();
+	const out = join(resultsDir, 'playwright.json');
+	const status = step('playwright', node, [bin('@playwright/test', 'cli.js'), 'test', '--reporter=list,json'], {
+		PLAYWRIGHT_JSON_OUTPUT_NAME: out
+	});
+	const stats = readJson(out)?.stats;
+	const passed = (stats?.expected ?? 0) + (stats?.flaky ?? 0);
+	const failed = (stats?.unexpected ?? 0) + (status !== 0 && !stats?.unexpected ? 1 : 0);
+	tally.push({ suite: 'playwright', passed, failed });
+}
+
+const passed = tally.reduce((n, t) => n + t.passed, 0);
+const failed = tally.reduce((n, t) => n + t.failed, 0);
+console.log('');
+for (const t of tally) console.log(`  ${t.suite.padEnd(13)} ${t.passed} passed, ${t.failed} failed`);
+console.log(`${passed} passed, ${failed} failed`);
+process.exit(failed > 0 || passed === 0 ? 1 : 0);

@@ -1,0 +1,58 @@
+// Authentication once (Auth.js), then authorisation for every page load, form action and API route from the one
+// table in $lib/server/authz. Nothing reaches a route without passing both.
+import { error, json, redirect, type Handle, type HandleServerError } from '@sveltejs/kit';
+import { sequence } from '@sveltejs/kit/hooks';
+import { authHandle, type StaffSession } from '$lib/server/auth';
+import { allows, ruleFor } from '$lib/server/authz';
+import { isDatabaseUnavailable } from '$lib/server/db';
+
+const isApi = (pathname: string) => pathname.startsWith('/api/');
+
+function refuse(pathname: string, status: 401 | 403 | 503, message: string, code: string) {
+	if (isApi(pathname)) return json({ code, message }, { status, headers: status === 503 ? { 'Retry-After': '5' } : {} });
+	return new Response(message, { status, headers: { 'content-type': 'text/plain; charset=utf-8' } });
+}
+
+const authorise: Handle = async ({ event, resolve }) => {
+	const { route, request, url } = event;
+	// No route matched: SvelteKit answers 404 itself.
+	if (!route.id) return resolve(event);
+
+	const decision = ruleFor(route.id, request.method, url.search);
+	if ('refused' in decision) {
+		return refuse(url.pathname, 403, 'This address is not open to anyone.', 'not_listed');
+	}
+	if (decision.access === 'public') return resolve(event);
+
+	let session: (Awaited<ReturnType<typeof event.locals.auth>> & { staff?: StaffSession }) | null;
+	try {
+		session = await event.locals.auth();
+	} catch (e) {
+		if (isDatabaseUnavailable(e)) return refuse(url.pathname, 503, 'The database is not answering. Try again in a few seconds.', 'database_unavailable');
+		throw e;
+	}
+	const staff = session?.staff;
+	if (!staff) {
+		if (isApi(url.pathname) || request.method !== 'GET') return refuse(url.pathname, 401, 'Sign in first.', 'signed_out');
+		redirect(303, `/signin?redirectTo=${encodeURIComponent(url.pathname + url.search)}`);
+	}
+	if (staff.unverified) {
+		return refuse(url.pathname, 503, 'The database is not answering. Try again in a few seconds.', 'database_unavailable');
+	}
+	if (!allows(decision.access, staff.role)) {
+		if (isApi(url.pathname) || request.method !== 'GET') {
+			return refuse(url.pathname, 403, 'Your role may not do this.', 'forbidden');
+		}
+		error(403, 'Your role may not open this page.');
+	}
+	event.locals.staff = staff;
+	return resolve(event);
+};
+
+export const handle = sequence(authHandle, authorise);
+
+export const handleError: HandleServerError = ({ error: e, status, message }) => {
+	if (isDatabaseUnavailable(e)) return { message: 'The database is not answering. Try again in a few seconds.', code: 'database_unavailable' };
+	if (status >= 500) console.error(e);
+	return { message, code: status === 404 ? 'not_found' : 'internal' };
+};

@@ -1,0 +1,138 @@
+// Authentication with Auth.js: a Credentials provider and a JWT session carrying user id, store id, role and
+// session version. The `jwt` callback re-reads the user on every request, so disabling an account or changing a
+// role takes effect on that user's next request.
+import { SvelteKitAuth, CredentialsSignin } from '@auth/sveltekit';
+import Credentials from '@auth/sveltekit/providers/credentials';
+import { Auth, raw, skipCSRFCheck, setEnvDefaults, type AuthConfig } from '@auth/core';
+import type { RequestEvent } from '@sveltejs/kit';
+import { env } from '$env/dynamic/private';
+import { config } from './config';
+import { isDatabaseUnavailable } from './db';
+import * as users from './db/users';
+import * as signinFailures from './db/signin-failures';
+import { verifyDecoy, verifySecret } from './passwords';
+import { signInSchema } from '$lib/schemas/signin';
+import type { Role } from '$lib/roles';
+
+/** The part of the session the app uses. `unverified` means the database could not be asked this time. */
+export interface StaffSession {
+	userId: number;
+	storeId: number;
+	role: Role;
+	name: string;
+	email: string;
+	unverified?: boolean;
+}
+
+class WrongCredentials extends CredentialsSignin {
+	code = 'credentials';
+}
+class SlowedDown extends CredentialsSignin {
+	code = 'slowed';
+}
+class DatabaseDown extends CredentialsSignin {
+	code = 'unavailable';
+}
+
+async function authorize(credentials: Partial<Record<string, unknown>>) {
+	const parsed = signInSchema.safeParse(credentials);
+	if (!parsed.success) throw new WrongCredentials();
+	const { email, password } = parsed.data;
+	const key = signinFailures.accountKey(email);
+	try {
+		if ((await signinFailures.lockedFor(key)) > 0) throw new SlowedDown();
+		const user = await users.findForSignIn(email);
+		const ok = user ? await verifySecret(user.passwordHash, password) : await verifyDecoy(password);
+		// A disabled account fails exactly like a wrong password: nothing tells whether it exists.
+		if (!user || !ok || !user.active) {
+			await signinFailures.recordFailure(key);
+			throw new WrongCredentials();
+		}
+		await signinFailures.clear(key);
+		return {
+			id: String(user.id),
+			name: user.name,
+			email: user.email,
+			storeId: user.storeId,
+			role: user.role,
+			sessionVersion: user.sessionVersion
+		};
+	} catch (error) {
+		if (error instanceof CredentialsSignin) throw error;
+		if (isDatabaseUnavailable(error)) throw new DatabaseDown();
+		throw error;
+	}
+}
+
+export const authConfig: AuthConfig = {
+	providers: [Credentials({ credentials: { email: {}, password: {} }, authorize })],
+	session: { strategy: 'jwt', maxAge: 12 * 60 * 60 },
+	pages: { signIn: '/signin', error: '/signin' },
+	// The built app ignores AUTH_TRUST_HOST; ORIGIN and SvelteKit's origin check guard the host instead.
+	trustHost: true,
+	secret: config().AUTH_SECRET,
+	callbacks: {
+		async jwt({ token, user }) {
+			if (user) {
+				const u = user as unknown as { id: string; storeId: number; role: Role; sessionVersion: number };
+				return { ...token, uid: Number(u.id), storeId: u.storeId, role: u.role, sv: u.sessionVersion };
+			}
+			try {
+				const current = await users.readForSession(Number(token.uid));
+				if (!current || !current.active || current.sessionVersion !== token.sv) return null;
+				const { unverified: _, ...rest } = token;
+				return { ...rest, storeId: current.storeId, role: current.role, name: current.name, email: current.email };
+			} catch (error) {
+				// Signing everyone out because the database restarted would be worse than a brief 503.
+				if (isDatabaseUnavailable(error)) return { ...token, unverified: true };
+				throw error;
+			}
+		},
+		session({ session, token }) {
+			const staff: StaffSession = {
+				userId: Number(token.uid),
+				storeId: Number(token.storeId),
+				role: token.role as Role,
+				name: String(token.name ?? ''),
+				email: String(token.email ?? ''),
+				unverified: token.unverified === true
+			};
+			return { ...session, staff };
+		}
+	}
+};
+
+export const { handle: authHandle, signOut } = SvelteKitAuth(authConfig);
+
+export type SignInResult = { ok: true } | { ok: false; code: 'credentials' | 'slowed' | 'unavailable' };
+
+/**
+ * Signs in from our own form action. Auth.js's ready-made action throws on a wrong password (a 500 in SvelteKit),
+ * so this calls Auth.js's core the same way and turns its answer into a result the page can show.
+ */
+export async function signInWithPassword(event: RequestEvent, email: string, password: string): Promise<SignInResult> {
+	const options: AuthConfig = { ...authConfig, basePath: '/auth', skipCSRFCheck, raw };
+	setEnvDefaults(env, options);
+	const headers = new Headers(event.request.headers);
+	headers.set('Content-Type', 'application/x-www-form-urlencoded');
+	const request = new Request(new URL('/auth/callback/credentials', event.url.origin), {
+		method: 'POST',
+		headers,
+		body: new URLSearchParams({ email, password, callbackUrl: '/' })
+	});
+	try {
+		const response = (await Auth(request, options)) as unknown as {
+			cookies?: { name: string; value: string; options: Record<string, unknown> }[];
+			redirect?: string;
+		};
+		const failure = response.redirect ? new URL(response.redirect, event.url.origin).searchParams.get('code') : null;
+		if (failure) return { ok: false, code: failure === 'slowed' || failure === 'unavailable' ? failure : 'credentials' };
+		for (const c of response.cookies ?? []) event.cookies.set(c.name, c.value, { path: '/', ...c.options });
+		return { ok: true };
+	} catch (error) {
+		if (error instanceof SlowedDown) return { ok: false, code: 'slowed' };
+		if (error instanceof DatabaseDown || isDatabaseUnavailable(error)) return { ok: false, code: 'unavailable' };
+		if (error instanceof CredentialsSignin) return { ok: false, code: 'credentials' };
+		throw error;
+	}
+}

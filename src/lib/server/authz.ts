@@ -1,0 +1,57 @@
+// The one authorisation table: every page, form action and API method by SvelteKit route id, with the roles that
+// may use it. hooks.server.ts checks it on every request; anything not listed here is refused. The role-matrix
+// test walks src/routes and fails when a route, action or method is missing from this table.
+import { roles, type Role } from '$lib/roles';
+
+export type Access = 'public' | 'staff' | readonly Role[];
+
+export interface PageRule {
+	kind: 'page';
+	/** GET of the page and its data. */
+	load: Access;
+	/** Named form actions (`default` for the unnamed one). */
+	actions?: Record<string, Access>;
+}
+
+export interface ApiRule {
+	kind: 'api';
+	methods: Partial<Record<'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE', Access>>;
+}
+
+export type Rule = PageRule | ApiRule;
+
+const managers = ['manager'] as const satisfies readonly Role[];
+
+export const authorisation: Record<string, Rule> = {
+	'/signin': { kind: 'page', load: 'public', actions: { default: 'public' } },
+	'/signout': { kind: 'page', load: 'staff', actions: { default: 'staff' } },
+	'/(staff)': { kind: 'page', load: 'staff' },
+	'/(staff)/manage': { kind: 'page', load: managers },
+	'/api/health': { kind: 'api', methods: { GET: 'public' } },
+	'/api/me': { kind: 'api', methods: { GET: 'staff' } }
+};
+
+export function allows(access: Access, role: Role | undefined): boolean {
+	if (access === 'public') return true;
+	if (!role) return false;
+	if (access === 'staff') return roles.includes(role);
+	return access.includes(role);
+}
+
+export type Decision = { access: Access } | { refused: 'unlisted' };
+
+/** The access rule for one request, or why there is none. */
+export function ruleFor(routeId: string, method: string, search: string): Decision {
+	const rule = authorisation[routeId];
+	if (!rule) return { refused: 'unlisted' };
+	if (rule.kind === 'api') {
+		const access = rule.methods[(method === 'HEAD' ? 'GET' : method) as keyof ApiRule['methods']];
+		return access ? { access } : { refused: 'unlisted' };
+	}
+	if (method === 'GET' || method === 'HEAD') return { access: rule.load };
+	if (method !== 'POST') return { refused: 'unlisted' };
+	// A form action is addressed as `?/name`; a bare POST is the default action.
+	const name = [...new URLSearchParams(search).keys()].find((k) => k.startsWith('/'))?.slice(1) || 'default';
+	const access = rule.actions?.[name];
+	return access ? { access } : { refused: 'unlisted' };
+}

@@ -1,0 +1,72 @@
+// The one Knex instance of this app instance. All SQL lives in the modules beside this file.
+import knexFactory, { type Knex } from 'knex';
+import pg from 'pg';
+import { config } from '../config';
+
+// NUMERIC columns arrive as strings by default; our numerics are measurements well inside a double's precision.
+pg.types.setTypeParser(pg.types.builtins.NUMERIC, (value) => Number(value));
+// COUNT(*) and BIGSERIAL ids are int8; the values we keep stay far below 2^53.
+pg.types.setTypeParser(pg.types.builtins.INT8, (value) => Number(value));
+
+let instance: Knex | undefined;
+
+export function db(): Knex {
+	if (instance) return instance;
+	const { DATABASE_URL, DB_POOL_MAX, DB_ACQUIRE_TIMEOUT_MS } = config();
+	instance = knexFactory({
+		client: 'pg',
+		connection: {
+			connectionString: DATABASE_URL,
+			// A stopped or unreachable server must turn into a quick 503, not a hung request.
+			connectionTimeoutMillis: DB_ACQUIRE_TIMEOUT_MS,
+			statement_timeout: 15_000,
+			application_name: 'lugline'
+		},
+		pool: {
+			min: 0,
+			max: DB_POOL_MAX,
+			afterCreate(connection: pg.Client, done: (error: Error | null, connection: pg.Client) => void) {
+				// An idle connection killed by a server restart emits 'error'; without a listener Node would crash.
+				connection.on('error', () => {});
+				done(null, connection);
+			}
+		},
+		acquireConnectionTimeout: DB_ACQUIRE_TIMEOUT_MS
+	});
+	return instance;
+}
+
+const unavailableCodes = new Set([
+	'ECONNREFUSED',
+	'ECONNRESET',
+	'ETIMEDOUT',
+	'EPIPE',
+	'57P01', // admin_shutdown
+	'57P02', // crash_shutdown
+	'57P03', // cannot_connect_now (starting up or shutting down)
+	'08000',
+	'08001',
+	'08003',
+	'08006'
+]);
+
+/** True when an error means "the database cannot be reached right now" rather than a bug or bad input. */
+export function isDatabaseUnavailable(error: unknown): boolean {
+	for (let e = error as { code?: string; name?: string; message?: string; cause?: unknown } | undefined, depth = 0; e && depth < 5; e = e.cause as typeof e, depth++) {
+		if (e.code && unavailableCodes.has(e.code)) return true;
+		if (e.name === 'KnexTimeoutError') return true;
+		if (typeof e.message === 'string' && /Connection terminated|connection timeout|Timeout acquiring a connection|Connection ended/i.test(e.message)) return true;
+	}
+	return false;
+}
+
+/** Whether the database answers a trivial query within `timeoutMs`. */
+export async function ping(timeoutMs = 2000): Promise<{ up: true; ms: number } | { up: false; reason: string }> {
+	const started = performance.now();
+	try {
+		await db().raw('SELECT 1').timeout(timeoutMs, { cancel: false });
+		return { up: true, ms: Math.round(performance.now() - started) };
+	} catch (error) {
+		return { up: false, reason: error instanceof Error ? error.message : String(error) };
+	}
+}

@@ -1,0 +1,43 @@
+// Slows repeated failed sign-ins for one account. Keyed by the e-mail as typed (lower-cased) whether or not an
+// account has it, so the slowing itself says nothing about which accounts exist. Kept in PostgreSQL so every app
+// instance behind a load balancer counts the same failures.
+import { db } from './index';
+
+/** Failures allowed inside the window before each further failure locks the account key for a while. */
+export const FREE_FAILURES = 5;
+export const WINDOW_MINUTES = 15;
+/** The lock doubles with each failure past the free ones (1 s, 2 s, 4 s…) up to this ceiling. */
+export const MAX_LOCK_SECONDS = 15 * 60;
+
+export function accountKey(email: string): string {
+	return email.trim().toLowerCase();
+}
+
+/** Seconds until this account key may try again, or 0. */
+export async function lockedFor(key: string): Promise<number> {
+	const row = await db()('signin_failures')
+		.select(db().raw('GREATEST(0, CEIL(EXTRACT(EPOCH FROM (locked_until - now())))) AS seconds'))
+		.where({ account_key: key })
+		.first();
+	return row ? Number(row.seconds) : 0;
+}
+
+/** Counts one failure in a single atomic statement (two instances failing at once both count). */
+export async function recordFailure(key: string): Promise<void> {
+	await db().raw(
+		`INSERT INTO signin_failures AS f (account_key, failures, first_failed_at, locked_until)
+		 VALUES (?, 1, now(), NULL)
+		 ON CONFLICT (account_key) DO UPDATE SET
+		   failures = CASE WHEN f.first_failed_at < now() - make_interval(mins => ?) THEN 1 ELSE f.failures + 1 END,
+		   first_failed_at = CASE WHEN f.first_failed_at < now() - make_interval(mins => ?) THEN now() ELSE f.first_failed_at END,
+		   locked_until = CASE
+		     WHEN f.first_failed_at < now() - make_interval(mins => ?) OR f.failures + 1 <= ? THEN NULL
+		     ELSE now() + make_interval(secs => LEAST(?, power(2, f.failures + 1 - ? - 1)))
+		   END`,
+		[key, WINDOW_MINUTES, WINDOW_MINUTES, WINDOW_MINUTES, FREE_FAILURES, MAX_LOCK_SECONDS, FREE_FAILURES]
+	);
+}
+
+export async function clear(key: string): Promise<void> {
+	await db()('signin_failures').where({ account_key: key }).delete();
+}

@@ -1,0 +1,49 @@
+// Staff accounts: what sign-in and the per-request session check need.
+import { db } from './index';
+import type { Role } from '$lib/roles';
+
+export interface SessionUser {
+	id: number;
+	storeId: number;
+	name: string;
+	email: string;
+	role: Role;
+	active: boolean;
+	sessionVersion: number;
+}
+
+interface SignInRow extends SessionUser {
+	passwordHash: string;
+}
+
+const sessionColumns = {
+	id: 'id',
+	storeId: 'store_id',
+	name: 'name',
+	email: 'email',
+	role: 'role',
+	active: 'active',
+	sessionVersion: 'session_version'
+};
+
+export async function findForSignIn(email: string): Promise<SignInRow | undefined> {
+	return db()('users')
+		.select({ ...sessionColumns, passwordHash: 'password_hash' })
+		.whereRaw('lower(email) = lower(?)', [email])
+		.first();
+}
+
+export async function readForSession(id: number): Promise<SessionUser | undefined> {
+	return db()('users').select(sessionColumns).where({ id }).first();
+}
+
+export async function listForStore(storeId: number): Promise<SessionUser[]> {
+	return db()('users').select(sessionColumns).where({ store_id: storeId }).orderBy(['role', 'name']);
+}
+
+/** Disables or re-enables an account; bumping the session version ends its sessions on their next request. */
+export async function setActive(id: number, active: boolean): Promise<void> {
+	await db()('users')
+		.where({ id })
+		.update({ active, session_version: db().raw('session_version + 1'), updated_at: db().fn.now() });
+}

@@ -1,0 +1,39 @@
+import { fail, redirect } from '@sveltejs/kit';
+import type { Actions, PageServerLoad } from './$types';
+import { signInWithPassword } from '$lib/server/auth';
+import { signInSchema } from '$lib/schemas/signin';
+
+/** Only same-site paths: an open redirect after sign-in would hand a phishing page a trusted link. */
+function safeTarget(target: string | null | undefined): string {
+	return target && target.startsWith('/') && !target.startsWith('//') && !target.startsWith('/\\') ? target : '/';
+}
+
+export const load: PageServerLoad = async ({ locals, url }) => {
+	const session = await locals.auth().catch(() => null);
+	if ((session as { staff?: unknown } | null)?.staff) redirect(303, safeTarget(url.searchParams.get('redirectTo')));
+	return { redirectTo: safeTarget(url.searchParams.get('redirectTo')) };
+};
+
+const messages = {
+	credentials: 'That e-mail and password do not match an active account.',
+	slowed: 'Too many failed sign-ins for this account. Wait a minute, then try again.',
+	unavailable: 'The database is not answering. Try again in a few seconds.'
+} as const;
+
+export const actions: Actions = {
+	default: async (event) => {
+		const form = Object.fromEntries(await event.request.formData());
+		const parsed = signInSchema.safeParse(form);
+		const email = typeof form.email === 'string' ? form.email.slice(0, 254) : '';
+		if (!parsed.success) {
+			const errors: Record<string, string> = Object.fromEntries(parsed.error.issues.map((i) => [String(i.path[0]), i.message]));
+			return fail(400, { email, errors, message: 'Check the highlighted fields.' });
+		}
+		const result = await signInWithPassword(event, parsed.data.email, parsed.data.password);
+		if (!result.ok) {
+			const status = result.code === 'slowed' ? 429 : result.code === 'unavailable' ? 503 : 400;
+			return fail(status, { email, errors: {} as Record<string, string>, message: messages[result.code] });
+		}
+		redirect(303, safeTarget(parsed.data.redirectTo));
+	}
+};
