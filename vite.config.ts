@@ -2,6 +2,13 @@ import { sveltekit } from '@sveltejs/kit/vite';
 import tailwindcss from '@tailwindcss/vite';
 import { defineConfig } from 'vitest/config';
 
+if (process.env.VITEST) {
+	// `npm test` sets these; the defaults let one test file run by hand against the test cluster. Set before the
+	// SvelteKit plugin reads the environment for $env/dynamic/private.
+	process.env.DATABASE_URL ??= 'postgres://postgres@127.0.0.1:54339/lugline_test';
+	process.env.AUTH_SECRET ??= 'lugline-test-secret-not-for-production-000000';
+}
+
 export default defineConfig({
 	plugins: [tailwindcss(), sveltekit()],
 	test: {
@@ -9,6 +16,6 @@ export default defineConfig({
 		fileParallelism: false,
 		include: ['src/**/*.test.ts', 'tests/integration/**/*.test.ts'],
 		testTimeout: 20_000,
-		hookTimeout: 30_000
+		hookTimeout: 30_000,
 	}
 });

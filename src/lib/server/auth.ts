@@ -64,45 +64,50 @@ async function authorize(credentials: Partial<Record<string, unknown>>) {
 	}
 }
 
-export const authConfig: AuthConfig = {
-	providers: [Credentials({ credentials: { email: {}, password: {} }, authorize })],
-	session: { strategy: 'jwt', maxAge: 12 * 60 * 60 },
-	pages: { signIn: '/signin', error: '/signin' },
-	// The built app ignores AUTH_TRUST_HOST; ORIGIN and SvelteKit's origin check guard the host instead.
-	trustHost: true,
-	secret: config().AUTH_SECRET,
-	callbacks: {
-		async jwt({ token, user }) {
-			if (user) {
-				const u = user as unknown as { id: string; storeId: number; role: Role; sessionVersion: number };
-				return { ...token, uid: Number(u.id), storeId: u.storeId, role: u.role, sv: u.sessionVersion };
-			}
-			try {
-				const current = await users.readForSession(Number(token.uid));
-				if (!current || !current.active || current.sessionVersion !== token.sv) return null;
-				const { unverified: _, ...rest } = token;
-				return { ...rest, storeId: current.storeId, role: current.role, name: current.name, email: current.email };
-			} catch (error) {
-				// Signing everyone out because the database restarted would be worse than a brief 503.
-				if (isDatabaseUnavailable(error)) return { ...token, unverified: true };
-				throw error;
-			}
-		},
-		session({ session, token }) {
-			const staff: StaffSession = {
-				userId: Number(token.uid),
-				storeId: Number(token.storeId),
-				role: token.role as Role,
-				name: String(token.name ?? ''),
-				email: String(token.email ?? ''),
-				unverified: token.unverified === true
-			};
-			return { ...session, staff };
-		}
-	}
-};
+let cachedConfig: AuthConfig | undefined;
 
-export const { handle: authHandle, signOut } = SvelteKitAuth(authConfig);
+/** Built on first use, not at import: `vite build` imports this module without any secrets set. */
+export function authConfig(): AuthConfig {
+	return (cachedConfig ??= {
+		providers: [Credentials({ credentials: { email: {}, password: {} }, authorize })],
+		session: { strategy: 'jwt', maxAge: 12 * 60 * 60 },
+		pages: { signIn: '/signin', error: '/signin' },
+		// The built app ignores AUTH_TRUST_HOST; ORIGIN and SvelteKit's origin check guard the host instead.
+		trustHost: true,
+		secret: config().AUTH_SECRET,
+		callbacks: {
+			async jwt({ token, user }) {
+				if (user) {
+					const u = user as unknown as { id: string; storeId: number; role: Role; sessionVersion: number };
+					return { ...token, uid: Number(u.id), storeId: u.storeId, role: u.role, sv: u.sessionVersion };
+				}
+				try {
+					const current = await users.readForSession(Number(token.uid));
+					if (!current || !current.active || current.sessionVersion !== token.sv) return null;
+					const { unverified: _, ...rest } = token;
+					return { ...rest, storeId: current.storeId, role: current.role, name: current.name, email: current.email };
+				} catch (error) {
+					// Signing everyone out because the database restarted would be worse than a brief 503.
+					if (isDatabaseUnavailable(error)) return { ...token, unverified: true };
+					throw error;
+				}
+			},
+			session({ session, token }) {
+				const staff: StaffSession = {
+					userId: Number(token.uid),
+					storeId: Number(token.storeId),
+					role: token.role as Role,
+					name: String(token.name ?? ''),
+					email: String(token.email ?? ''),
+					unverified: token.unverified === true
+				};
+				return { ...session, staff };
+			}
+		}
+	});
+}
+
+export const { handle: authHandle, signOut } = SvelteKitAuth(() => authConfig());
 
 export type SignInResult = { ok: true } | { ok: false; code: 'credentials' | 'slowed' | 'unavailable' };
 
@@ -111,7 +116,7 @@ export type SignInResult = { ok: true } | { ok: false; code: 'credentials' | 'sl
  * so this calls Auth.js's core the same way and turns its answer into a result the page can show.
  */
 export async function signInWithPassword(event: RequestEvent, email: string, password: string): Promise<SignInResult> {
-	const options: AuthConfig = { ...authConfig, basePath: '/auth', skipCSRFCheck, raw };
+	const options: AuthConfig = { ...authConfig(), basePath: '/auth', skipCSRFCheck, raw };
 	setEnvDefaults(env, options);
 	const headers = new Headers(event.request.headers);
 	headers.set('Content-Type', 'application/x-www-form-urlencoded');
@@ -126,7 +131,8 @@ export async function signInWithPassword(event: RequestEvent, email: string, pas
 			redirect?: string;
 		};
 		const failure = response.redirect ? new URL(response.redirect, event.url.origin).searchParams.get('code') : null;
-		if (failure) return { ok: false, code: failure === 'slowed' || failure === 'unavailable' ? failure : 'credentials' };
+		if (failure)
+			return { ok: false, code: failure === 'slowed' || failure === 'unavailable' ? failure : 'credentials' };
 		for (const c of response.cookies ?? []) event.cookies.set(c.name, c.value, { path: '/', ...c.options });
 		return { ok: true };
 	} catch (error) {

@@ -1,7 +1,8 @@
 // The one authorisation table: every page, form action and API method by SvelteKit route id, with the roles that
 // may use it. hooks.server.ts checks it on every request; anything not listed here is refused. The role-matrix
 // test walks src/routes and fails when a route, action or method is missing from this table.
-import { roles, type Role } from '$lib/roles';
+// Relative import: the end-to-end role matrix imports this table outside Vite.
+import { roles, type Role } from '../roles';
 
 export type Access = 'public' | 'staff' | readonly Role[];
 
