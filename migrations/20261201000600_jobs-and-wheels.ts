@@ -29,7 +29,9 @@ export async function up(knex: Knex): Promise<void> {
 		ADD CONSTRAINT jobs_state_check CHECK (state IN ('waiting', 'in_progress', 'done', 'collected', 'cancelled')),
 		ADD CONSTRAINT jobs_number_positive CHECK (number > 0),
 		ADD CONSTRAINT jobs_version_positive CHECK (version > 0),
-		ADD CONSTRAINT jobs_done_has_time CHECK (state NOT IN ('done', 'collected') OR done_at IS NOT NULL)`);
+		ADD CONSTRAINT jobs_started_has_time CHECK (state <> 'in_progress' OR started_at IS NOT NULL),
+		ADD CONSTRAINT jobs_done_has_time CHECK (state NOT IN ('done', 'collected') OR done_at IS NOT NULL),
+		ADD CONSTRAINT jobs_collected_has_time CHECK (state <> 'collected' OR collected_at IS NOT NULL)`);
 
 	await knex.schema.createTable('job_services', (t) => {
 		t.integer('job_id').notNullable().references('jobs.id').onDelete('CASCADE');
@@ -41,7 +43,8 @@ export async function up(knex: Knex): Promise<void> {
 		t.increments('id');
 		t.integer('job_id').notNullable().references('jobs.id').onDelete('CASCADE');
 		t.text('position').notNullable();
-		t.integer('bay_id').references('bays.id').onDelete('SET NULL');
+		// RESTRICT: a bay holding wheels is taken out of service (`active`), not deleted.
+		t.integer('bay_id').references('bays.id').onDelete('RESTRICT');
 		t.integer('queue_position');
 		t.text('state').notNullable().defaultTo('queued');
 		t.integer('tech_id').references('users.id').onDelete('SET NULL');
@@ -50,7 +53,6 @@ export async function up(knex: Knex): Promise<void> {
 		t.integer('version').notNullable().defaultTo(1);
 		t.timestamps(true, true);
 		t.unique(['job_id', 'position']);
-		t.index(['bay_id', 'queue_position']);
 		t.index(['job_id']);
 	});
 	await knex.raw(`ALTER TABLE wheels
@@ -60,6 +62,10 @@ export async function up(knex: Knex): Promise<void> {
 		ADD CONSTRAINT wheels_queue_needs_bay CHECK (bay_id IS NOT NULL OR queue_position IS NULL),
 		ADD CONSTRAINT wheels_working_in_bay CHECK (state <> 'working' OR (bay_id IS NOT NULL AND started_at IS NOT NULL)),
 		ADD CONSTRAINT wheels_done_has_times CHECK (state <> 'done' OR (started_at IS NOT NULL AND finished_at IS NOT NULL AND finished_at >= started_at))`);
+	// Two wheels can never share a place in a bay's queue. Deferred, so a reorder can swap places inside one transaction.
+	await knex.raw(
+		'ALTER TABLE wheels ADD CONSTRAINT wheels_queue_place_unique UNIQUE (bay_id, queue_position) DEFERRABLE INITIALLY DEFERRED'
+	);
 	await knex.raw('CREATE INDEX wheels_finished_at ON wheels (finished_at) WHERE finished_at IS NOT NULL');
 }
 
