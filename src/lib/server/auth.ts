@@ -74,6 +74,13 @@ export function authConfig(): AuthConfig {
 		pages: { signIn: '/signin', error: '/signin' },
 		// The built app ignores AUTH_TRUST_HOST; ORIGIN and SvelteKit's origin check guard the host instead.
 		trustHost: true,
+	logger: {
+		error(error) {
+			// A refused sign-in is expected traffic: one line without a stack, and never the password.
+			if (error instanceof CredentialsSignin) console.warn(`[auth] sign-in refused (${error.code})`);
+			else console.error('[auth]', error);
+		}
+	},
 		secret: config().AUTH_SECRET,
 		callbacks: {
 			async jwt({ token, user }) {
@@ -107,7 +114,7 @@ export function authConfig(): AuthConfig {
 	});
 }
 
-export const { handle: authHandle, signOut } = SvelteKitAuth(() => authConfig());
+export const { handle: authHandle, signOut } = SvelteKitAuth(async () => authConfig());
 
 export type SignInResult = { ok: true } | { ok: false; code: 'credentials' | 'slowed' | 'unavailable' };
 
