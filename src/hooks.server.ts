@@ -4,7 +4,7 @@ import { error, json, redirect, type Handle, type HandleServerError } from '@sve
 import { sequence } from '@sveltejs/kit/hooks';
 import { authHandle, type StaffSession } from '$lib/server/auth';
 import { allows, ruleFor } from '$lib/server/authz';
-import { isDatabaseUnavailable } from '$lib/server/db';
+import { close as closeDatabase, isDatabaseUnavailable } from '$lib/server/db';
 
 const isApi = (pathname: string) => pathname.startsWith('/api/');
 
@@ -50,6 +50,11 @@ const authorise: Handle = async ({ event, resolve }) => {
 };
 
 export const handle = sequence(authHandle, authorise);
+
+// adapter-node emits this once the HTTP server has closed (Ctrl+C, SIGTERM): release the database connections now.
+process.on('sveltekit:shutdown', () => {
+	void closeDatabase();
+});
 
 export const handleError: HandleServerError = ({ error: e, status, message }) => {
 	if (isDatabaseUnavailable(e)) return { message: 'The database is not answering. Try again in a few seconds.', code: 'database_unavailable' };

@@ -70,3 +70,10 @@ export async function ping(timeoutMs = 2000): Promise<{ up: true; ms: number } |
 		return { up: false, reason: error instanceof Error ? error.message : String(error) };
 	}
 }
+
+/** Closes the pool, so a stopping app does not wait for idle connections to time out. */
+export async function close(): Promise<void> {
+	const current = instance;
+	instance = undefined;
+	await current?.destroy();
+}
