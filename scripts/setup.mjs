@@ -72,9 +72,14 @@ export function postgresBin() {
 	if (!bin) {
 		log('installing PostgreSQL from Debian packages…');
 		// Debian's package would otherwise create and start its own cluster on 5432; we only need the binaries.
-		mkdirSync('/etc/postgresql-common', { recursive: true });
-		const conf = '/etc/postgresql-common/createcluster.conf';
-		if (!existsSync(conf)) writeFileSync(conf, 'create_main_cluster = false\n');
+		if (isRoot) {
+			mkdirSync('/etc/postgresql-common', { recursive: true });
+			const conf = '/etc/postgresql-common/createcluster.conf';
+			const current = existsSync(conf) ? readFileSync(conf, 'utf8') : '';
+			if (!/^\s*create_main_cluster\s*=\s*false/m.test(current)) {
+				writeFileSync(conf, `${current}${current && !current.endsWith('\n') ? '\n' : ''}create_main_cluster = false\n`);
+			}
+		}
 		aptInstall(['postgresql', 'postgresql-contrib']);
 		bin = find();
 		if (!bin) fail('PostgreSQL was installed but its server binaries were not found under /usr/lib/postgresql');
