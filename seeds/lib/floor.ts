@@ -463,6 +463,11 @@ export async function writeFloor(
 	jobs: readonly PlannedJob[]
 ): Promise<void> {
 	const at = (min: number | null) => (min === null ? null : new Date(now.getTime() + Math.round(min * scale * 60_000)));
+	// Who is on each bay now: its technician, unless the bay has closed for a break.
+	await db('bays').whereIn('id', bays.map((b) => b.id)).update({ tech_id: null });
+	for (const bay of bays) {
+		if (bay.closesAtMin === undefined || bay.closesAtMin > 0) await db('bays').where({ id: bay.id }).update({ tech_id: bay.techId });
+	}
 	const ordered = [...jobs].sort((a, b) => a.createdMin - b.createdMin);
 	const jobIds = await reserveIds(db, 'jobs', ordered.length);
 	const wheelCount = ordered.reduce((n, j) => n + j.wheels.length, 0);

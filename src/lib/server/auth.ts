@@ -21,6 +21,7 @@ export interface StaffSession {
 	role: Role;
 	name: string;
 	email: string;
+	sessionVersion: number;
 	unverified?: boolean;
 }
 
@@ -106,6 +107,7 @@ export function authConfig(): AuthConfig {
 					role: token.role as Role,
 					name: String(token.name ?? ''),
 					email: String(token.email ?? ''),
+					sessionVersion: Number(token.sv),
 					unverified: token.unverified === true
 				};
 				return { ...session, staff };

@@ -22,6 +22,9 @@ export interface ApiRule {
 export type Rule = PageRule | ApiRule;
 
 const managers = ['manager'] as const satisfies readonly Role[];
+const counter = ['writer', 'lead', 'manager'] as const satisfies readonly Role[];
+const floorHands = ['lead', 'tech', 'manager'] as const satisfies readonly Role[];
+const leadsOnly = ['lead', 'manager'] as const satisfies readonly Role[];
 
 export const authorisation: Record<string, Rule> = {
 	'/signin': { kind: 'page', load: 'public', actions: { default: 'public' } },
@@ -29,7 +32,14 @@ export const authorisation: Record<string, Rule> = {
 	'/(staff)': { kind: 'page', load: 'staff' },
 	'/(staff)/manage': { kind: 'page', load: managers },
 	'/api/health': { kind: 'api', methods: { GET: 'public' } },
-	'/api/me': { kind: 'api', methods: { GET: 'staff' } }
+	'/api/me': { kind: 'api', methods: { GET: 'staff' } },
+	'/api/board': { kind: 'api', methods: { GET: 'staff' } },
+	'/api/events': { kind: 'api', methods: { POST: 'staff' } },
+	'/api/jobs': { kind: 'api', methods: { POST: counter } },
+	'/api/jobs/[id=id]': { kind: 'api', methods: { GET: 'staff', PATCH: counter } },
+	// Finer rules inside (a technician only in their own bay): src/lib/server/db/wheels.ts.
+	'/api/wheels/[id=id]': { kind: 'api', methods: { PATCH: floorHands } },
+	'/api/wheels/move': { kind: 'api', methods: { POST: leadsOnly } }
 };
 
 export function allows(access: Access, role: Role | undefined): boolean {

@@ -47,3 +47,8 @@ export async function setActive(id: number, active: boolean): Promise<void> {
 		.where({ id })
 		.update({ active, session_version: db().raw('session_version + 1'), updated_at: db().fn.now() });
 }
+
+export async function readManyForSession(ids: number[]): Promise<SessionUser[]> {
+	if (ids.length === 0) return [];
+	return db()('users').select(sessionColumns).whereIn('id', ids);
+}

@@ -1,0 +1,40 @@
+// The fan-out inside one app instance: the listener hands each committed event to the open streams of its store.
+// An event is serialised once here, not once per screen.
+
+export interface Delivered {
+	id: number;
+	storeId: number;
+	/** The event as the stream sends it: `{ id, type, at, jobs, wheels, bays }`. */
+	json: string;
+}
+
+type Subscriber = (event: Delivered) => void;
+
+const byStore = new Map<number, Set<Subscriber>>();
+
+export function subscribe(storeId: number, subscriber: Subscriber): () => void {
+	let set = byStore.get(storeId);
+	if (!set) byStore.set(storeId, (set = new Set()));
+	set.add(subscriber);
+	return () => {
+		set.delete(subscriber);
+		if (set.size === 0 && byStore.get(storeId) === set) byStore.delete(storeId);
+	};
+}
+
+export function publish(event: Delivered): void {
+	for (const subscriber of byStore.get(event.storeId) ?? []) {
+		try {
+			subscriber(event);
+		} catch (error) {
+			// One broken stream must not stop the others.
+			console.error('[live] a subscriber failed', error);
+		}
+	}
+}
+
+export function openStreams(): number {
+	let n = 0;
+	for (const set of byStore.values()) n += set.size;
+	return n;
+}
