@@ -54,6 +54,9 @@ if (wants('check')) {
 	tally.push({ suite: 'svelte-check', passed: status === 0 ? 1 : 0, failed: status === 0 ? 0 : 1 });
 }
 
+// The integration tests start app instances from the build, so build before Vitest.
+if (wants('vitest') || wants('e2e')) ensureBuild();
+
 if (wants('vitest')) {
 	const out = join(resultsDir, 'vitest.json');
 	const status = step('vitest', node, [bin('vitest', 'vitest.mjs'), 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${out}`]);
@@ -64,7 +67,6 @@ if (wants('vitest')) {
 }
 
 if (wants('e2e')) {
-	ensureBuild();
 	const out = join(resultsDir, 'playwright.json');
 	const status = step('playwright', node, [bin('@playwright/test', 'cli.js'), 'test', '--reporter=list,json'], {
 		PLAYWRIGHT_JSON_OUTPUT_NAME: out

@@ -7,7 +7,11 @@ import { roles, type Role } from '../../src/lib/roles';
 import { account } from '../support/accounts';
 
 /** Concrete addresses for route ids; ids with parameters need an example here or the test fails. */
-const examples: Record<string, string> = {};
+const examples: Record<string, string> = {
+	// Demo job 1 and wheel 1 exist in the seeded store of every role in this matrix.
+	'/api/jobs/[id=id]': '/api/jobs/1',
+	'/api/wheels/[id=id]': '/api/wheels/1'
+};
 
 function urlFor(routeId: string): string {
 	if (examples[routeId]) return examples[routeId];

@@ -66,7 +66,7 @@ async function connect(): Promise<void> {
 		const row = await db()('events').max({ max: 'id' }).first();
 		lastSeen = Number(row?.max ?? 0);
 	}
-	const c = new pg.Client({ connectionString: config().DATABASE_URL, application_name: 'lugline-listen' });
+	const c = new pg.Client({ connectionString: config().DATABASE_URL, application_name: `lugline-listen:${process.env.PORT ?? 'dev'}` });
 	c.on('notification', () => void catchUp());
 	const dropped = () => {
 		if (client !== c) return;

@@ -1,0 +1,186 @@
+// Starts app instances from the build (`node build`) against the tests' database, as production would run them
+// behind a load balancer, and talks to them like a screen does: signed-in JSON calls and the event stream.
+import { spawn, type ChildProcess } from 'node:child_process';
+import { testDatabaseUrl } from './database';
+
+export const testSecret = process.env.AUTH_SECRET ?? 'lugline-test-secret-not-for-production-000000';
+
+export interface Instance {
+	url: string;
+	port: number;
+	process: ChildProcess;
+}
+
+async function healthy(url: string, deadline: number): Promise<void> {
+	while (Date.now() < deadline) {
+		try {
+			const r = await fetch(`${url}/api/health`);
+			if (r.status === 200) return;
+		} catch {
+			// not listening yet
+		}
+		await new Promise((r) => setTimeout(r, 100));
+	}
+	throw new Error(`${url} did not become healthy`);
+}
+
+export async function startInstances(ports: number[]): Promise<Instance[]> {
+	const instances = ports.map((port) => {
+		const url = `http://127.0.0.1:${port}`;
+		const child = spawn(process.execPath, ['build'], {
+			env: { ...process.env, HOST: '127.0.0.1', PORT: String(port), ORIGIN: url, AUTH_SECRET: testSecret, DATABASE_URL: testDatabaseUrl },
+			stdio: ['ignore', 'ignore', 'pipe']
+		});
+		child.stderr?.on('data', (d) => {
+			const text = String(d);
+			if (!/sign-in refused|\[live\]/.test(text)) process.stderr.write(`[instance ${port}] ${text}`);
+		});
+		return { url, port, process: child };
+	});
+	await Promise.all(instances.map((i) => healthy(i.url, Date.now() + 30_000)));
+	return instances;
+}
+
+export async function stopInstances(instances: Instance[]): Promise<void> {
+	await Promise.all(
+		instances.map(
+			(i) =>
+				new Promise<void>((done) => {
+					if (i.process.exitCode !== null) return done();
+					i.process.once('exit', () => done());
+					i.process.kill('SIGTERM');
+					setTimeout(() => i.process.kill('SIGKILL'), 5000).unref();
+				})
+		)
+	);
+}
+
+/** Signs in through the real form action and returns the session cookie. */
+export async function signIn(url: string, email: string, password: string): Promise<string> {
+	const response = await fetch(`${url}/signin`, {
+		method: 'POST',
+		headers: { origin: url, accept: 'text/html', 'content-type': 'application/x-www-form-urlencoded' },
+		body: new URLSearchParams({ email, password }),
+		redirect: 'manual'
+	});
+	const cookie = response.headers
+		.getSetCookie()
+		.map((c) => c.split(';')[0])
+		.find((c) => c.startsWith('authjs.session-token='));
+	if (response.status !== 303 || !cookie) throw new Error(`sign-in as ${email} failed: ${response.status}`);
+	return cookie;
+}
+
+export interface Client {
+	url: string;
+	call(method: string, path: string, body?: unknown): Promise<{ status: number; body: any }>;
+}
+
+export function client(url: string, cookie: string): Client {
+	return {
+		url,
+		async call(method, path, body) {
+			const response = await fetch(`${url}${path}`, {
+				method,
+				headers: { origin: url, cookie, ...(body === undefined ? {} : { 'content-type': 'application/json' }) },
+				body: body === undefined ? undefined : JSON.stringify(body)
+			});
+			const text = await response.text();
+			let parsed: unknown = text;
+			try {
+				parsed = JSON.parse(text);
+			} catch {
+				// not JSON (an error page); keep the text
+			}
+			return { status: response.status, body: parsed };
+		}
+	};
+}
+
+export interface StreamEvent {
+	event: string;
+	data: any;
+}
+
+/** An open event stream: collects every event; `until` waits for a condition over what has arrived. */
+export interface Stream {
+	events: StreamEvent[];
+	floor(): any[];
+	until(predicate: (events: StreamEvent[]) => boolean, timeoutMs?: number): Promise<void>;
+	close(): void;
+	closed: Promise<void>;
+}
+
+export function openStream(url: string, cookie: string, cursor: number): Stream {
+	const controller = new AbortController();
+	const events: StreamEvent[] = [];
+	const waiters = new Set<() => void>();
+	const notify = () => waiters.forEach((w) => w());
+	const closed = (async () => {
+		try {
+			const response = await fetch(`${url}/api/events`, {
+				method: 'POST',
+				headers: { origin: url, cookie, 'content-type': 'application/json' },
+				body: JSON.stringify({ cursor }),
+				signal: controller.signal
+			});
+			if (response.status !== 200 || !response.body) {
+				events.push({ event: 'http_error', data: { status: response.status, body: await response.text() } });
+				return;
+			}
+			const decoder = new TextDecoder();
+			let buffer = '';
+			for await (const chunk of response.body) {
+				buffer += decoder.decode(chunk as Uint8Array, { stream: true });
+				let cut: number;
+				while ((cut = buffer.indexOf('\n\n')) >= 0) {
+					const block = buffer.slice(0, cut);
+					buffer = buffer.slice(cut + 2);
+					let name = 'message';
+					const data: string[] = [];
+					for (const line of block.split('\n')) {
+						if (line.startsWith('event: ')) name = line.slice(7);
+						else if (line.startsWith('data: ')) data.push(line.slice(6));
+					}
+					const text = data.join('\n');
+					let value: unknown = text;
+					try {
+						value = text ? JSON.parse(text) : text;
+					} catch {
+						// keep raw
+					}
+					events.push({ event: name, data: value });
+					notify();
+				}
+			}
+		} catch (error) {
+			if (!controller.signal.aborted) events.push({ event: 'stream_error', data: String(error) });
+		} finally {
+			events.push({ event: 'closed', data: null });
+			notify();
+		}
+	})();
+	return {
+		events,
+		floor: () => events.filter((e) => e.event === 'floor').map((e) => e.data),
+		until(predicate, timeoutMs = 10_000) {
+			return new Promise((resolve, reject) => {
+				const check = () => {
+					if (predicate(events)) {
+						waiters.delete(check);
+						clearTimeout(timer);
+						resolve();
+					}
+				};
+				const timer = setTimeout(() => {
+					waiters.delete(check);
+					reject(new Error(`stream condition not met in ${timeoutMs} ms; got ${events.map((e) => e.event).join(',')}`));
+				}, timeoutMs);
+				waiters.add(check);
+				check();
+			});
+		},
+		close: () => controller.abort(),
+		closed
+	};
+}
