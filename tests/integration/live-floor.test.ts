@@ -136,4 +136,29 @@ describe('two app instances on one database', () => {
 			await listener.end();
 		}
 	});
+
+	it('a stream closes when its user is disabled, and a stale cursor gets one resync', { timeout: 30_000 }, async () => {
+		const tech = store.people.tech2;
+		const techCookie = await signIn(instances[1].url, tech.email, tech.password);
+		const stream = openStream(instances[1].url, techCookie, await cursorNow());
+		await stream.until((e) => e.some((x) => x.event === 'ready'));
+		await withClient((c) => c.query('UPDATE users SET active = false, session_version = session_version + 1 WHERE id = $1', [tech.id]));
+		try {
+			await stream.until((e) => e.some((x) => x.event === 'closed'), 15_000);
+			expect(stream.events.map((e) => e.event)).toContain('signed_out');
+			const again = await client(instances[1].url, techCookie).call('GET', '/api/board');
+			expect(again.status).toBe(401);
+		} finally {
+			await withClient((c) => c.query('UPDATE users SET active = true WHERE id = $1', [tech.id]));
+		}
+		await withClient((c) => c.query('UPDATE stores SET events_pruned_to = $2 WHERE id = $1', [store.id, 1_000_000_000]));
+		try {
+			const stale = openStream(instances[0].url, cookie, 5);
+			await stale.until((e) => e.some((x) => x.event === 'closed'));
+			expect(stale.events.map((e) => e.event)).toEqual(['resync', 'closed']);
+			expect(stale.events[0].data.reason).toBe('too_old');
+		} finally {
+			await withClient((c) => c.query('UPDATE stores SET events_pruned_to = 0 WHERE id = $1', [store.id]));
+		}
+	});
 });

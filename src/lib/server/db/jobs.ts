@@ -5,7 +5,7 @@ import { NotAllowedNow, NotFound, VersionConflict } from '../errors';
 import * as events from '../live/events';
 import type { Actor } from './actor';
 import * as audit from './audit';
-import { inTransaction } from './transaction';
+import { inTransaction, Retry } from './transaction';
 import { db } from './index';
 import { jobDetail, jobViews, wheelViews } from './views';
 import { removeFromBays } from './queues';
@@ -115,6 +115,13 @@ export async function update(actor: Actor, id: number, patch: PatchJob): Promise
 			await trx('bays').select('id').whereIn('id', bayIds).orderBy('id').forUpdate();
 		}
 		const job = await trx('jobs').select('*').where({ id }).forUpdate().first();
+		if (patch.state === 'cancelled') {
+			// A wheel moved into another bay between our first look and the locks: lock again from the start.
+			const now: number[] = (await trx('wheels').distinct('bay_id').where({ job_id: id }).whereNotNull('bay_id')).map(
+				(r: { bay_id: number }) => r.bay_id
+			);
+			if (now.some((b) => !bayIds.includes(b))) throw new Retry();
+		}
 		if (job.version !== patch.version) throw new VersionConflict(await jobDetail(trx, id));
 
 		const changes: Record<string, unknown> = {};

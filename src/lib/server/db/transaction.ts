@@ -5,13 +5,17 @@ import { db } from './index';
 
 const RETRYABLE = new Set(['40P01', '40001']);
 
+/** Thrown inside a transaction when what it locked no longer covers what it must change: start over. */
+export class Retry extends Error {}
+
 export async function inTransaction<T>(work: (trx: Knex.Transaction) => Promise<T>, attempts = 4): Promise<T> {
 	for (let attempt = 1; ; attempt++) {
 		try {
 			return await db().transaction(work);
 		} catch (error) {
 			const code = (error as { code?: string }).code;
-			if (!code || !RETRYABLE.has(code) || attempt >= attempts) throw error;
+			const retryable = error instanceof Retry || (code !== undefined && RETRYABLE.has(code));
+			if (!retryable || attempt >= attempts) throw error;
 			await new Promise((r) => setTimeout(r, 5 * attempt + Math.random() * 10));
 		}
 	}
