@@ -2,9 +2,10 @@
 // table in $lib/server/authz. Nothing reaches a route without passing both.
 import { error, json, redirect, type Handle, type HandleServerError } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
-import { authHandle, type StaffSession } from '$lib/server/auth';
+import { apiSession, authHandle, type StaffSession } from '$lib/server/auth';
 import { allows, ruleFor } from '$lib/server/authz';
 import { close as closeDatabase, isDatabaseUnavailable } from '$lib/server/db';
+import { stop as stopListener } from '$lib/server/live/listener';
 
 const isApi = (pathname: string) => pathname.startsWith('/api/');
 
@@ -24,14 +25,18 @@ const authorise: Handle = async ({ event, resolve }) => {
 	}
 	if (decision.access === 'public') return resolve(event);
 
-	let session: (Awaited<ReturnType<typeof event.locals.auth>> & { staff?: StaffSession }) | null;
+	let staff: StaffSession | undefined;
 	try {
-		session = await event.locals.auth();
+		if (isApi(url.pathname)) {
+			staff = (await apiSession(request, url.protocol === 'https:')) ?? undefined;
+		} else {
+			const session = (await event.locals.auth()) as { staff?: StaffSession } | null;
+			staff = session?.staff;
+		}
 	} catch (e) {
 		if (isDatabaseUnavailable(e)) return refuse(url.pathname, 503, 'The database is not answering. Try again in a few seconds.', 'database_unavailable');
 		throw e;
 	}
-	const staff = session?.staff;
 	if (!staff) {
 		if (isApi(url.pathname) || request.method !== 'GET') return refuse(url.pathname, 401, 'Sign in first.', 'signed_out');
 		redirect(303, `/signin?redirectTo=${encodeURIComponent(url.pathname + url.search)}`);
@@ -53,7 +58,7 @@ export const handle = sequence(authHandle, authorise);
 
 // adapter-node emits this once the HTTP server has closed (Ctrl+C, SIGTERM): release the database connections now.
 process.on('sveltekit:shutdown', () => {
-	void closeDatabase();
+	void stopListener().finally(() => closeDatabase());
 });
 
 export const handleError: HandleServerError = ({ error: e, status, message }) => {

@@ -24,7 +24,12 @@ describe('events and their transaction', () => {
 			await expect(
 				db().transaction(async (trx) => {
 					await trx('bays').where({ id: store.bays[0].id }).update({ name: 'Renamed, then rolled back' });
-					writtenId = await events.append(trx, { storeId: store.id, type: 'bay.renamed', entity: 'bay', entityId: store.bays[0].id });
+					writtenId = await events.append(trx, {
+						storeId: store.id,
+						type: 'bay.renamed',
+						entity: 'bay',
+						entityId: store.bays[0].id
+					});
 					throw new Error('the change fails after its event insert');
 				})
 			).rejects.toThrow('fails after its event insert');

@@ -33,7 +33,10 @@ describe('who may do what on the floor', () => {
 		const j = await job();
 		expect(j.number).toBeGreaterThan(0);
 		expect(j.wheels.map((w: { position: string }) => w.position)).toEqual(['LF', 'RF', 'LR', 'RR']);
-		const move = await as.writer.call('PATCH', `/api/wheels/${j.wheels[0].id}`, { version: 1, bayId: store.bays[0].id });
+		const move = await as.writer.call('PATCH', `/api/wheels/${j.wheels[0].id}`, {
+			version: 1,
+			bayId: store.bays[0].id
+		});
 		expect(move.status).toBe(403);
 		expect((await as.tech.call('POST', '/api/jobs', newJob())).status).toBe(403);
 		const cancel = await as.writer.call('PATCH', `/api/jobs/${j.id}`, { version: j.version, state: 'cancelled' });
@@ -67,7 +70,9 @@ describe('who may do what on the floor', () => {
 		expect(done.body.doneAt).not.toBeNull();
 		// Only a lead reopens finished work.
 		const lfDone = done.body.wheels.find((w: { id: number }) => w.id === lf.id);
-		expect((await as.tech.call('PATCH', `/api/wheels/${lf.id}`, { version: lfDone.version, state: 'queued' })).status).toBe(403);
+		expect(
+			(await as.tech.call('PATCH', `/api/wheels/${lf.id}`, { version: lfDone.version, state: 'queued' })).status
+		).toBe(403);
 		r = await as.lead.call('PATCH', `/api/wheels/${lf.id}`, { version: lfDone.version, state: 'queued' });
 		expect(r.status).toBe(200);
 		expect((await as.writer.call('GET', `/api/jobs/${j.id}`)).body.state).toBe('in_progress');
@@ -77,7 +82,10 @@ describe('who may do what on the floor', () => {
 		const j = await job({ wheels: ['SP'] });
 		const w = j.wheels[0];
 		const moved = await as.lead.call('PATCH', `/api/wheels/${w.id}`, { version: w.version, bayId: store.bays[1].id });
-		const r = await as.tech2.call('PATCH', `/api/wheels/${w.id}`, { version: moved.body.wheels.find((x: { id: number }) => x.id === w.id).version, state: 'working' });
+		const r = await as.tech2.call('PATCH', `/api/wheels/${w.id}`, {
+			version: moved.body.wheels.find((x: { id: number }) => x.id === w.id).version,
+			state: 'working'
+		});
 		expect(r.status).toBe(200);
 	});
 });
@@ -86,7 +94,10 @@ describe('conflicts and refusals', () => {
 	it('a move of several wheels with one stale version moves none of them', async () => {
 		const j = await job();
 		const body = {
-			wheels: j.wheels.map((w: { id: number; version: number }, i: number) => ({ id: w.id, version: i === 2 ? w.version + 5 : w.version })),
+			wheels: j.wheels.map((w: { id: number; version: number }, i: number) => ({
+				id: w.id,
+				version: i === 2 ? w.version + 5 : w.version
+			})),
 			bayId: store.bays[2].id
 		};
 		const r = await as.lead.call('POST', '/api/wheels/move', body);
@@ -100,12 +111,15 @@ describe('conflicts and refusals', () => {
 		const first = await job({ wheels: ['LF', 'RF'] });
 		const second = await job({ wheels: ['LF', 'RF', 'LR'] });
 		const bay = store.bays[3].id;
-		const ids = (j: { wheels: { id: number; version: number }[] }) => j.wheels.map((w) => ({ id: w.id, version: w.version }));
+		const ids = (j: { wheels: { id: number; version: number }[] }) =>
+			j.wheels.map((w) => ({ id: w.id, version: w.version }));
 		expect((await as.lead.call('POST', '/api/wheels/move', { wheels: ids(first), bayId: bay })).status).toBe(200);
 		const r = await as.lead.call('POST', '/api/wheels/move', { wheels: ids(second), bayId: bay, queuePosition: 1 });
 		expect(r.status).toBe(200);
 		const lane = await withClient((c) =>
-			c.query(`SELECT id, queue_position FROM wheels WHERE bay_id = $1 AND state <> 'done' ORDER BY queue_position`, [bay])
+			c.query(`SELECT id, queue_position FROM wheels WHERE bay_id = $1 AND state <> 'done' ORDER BY queue_position`, [
+				bay
+			])
 		);
 		expect(lane.rows.map((x) => x.queue_position)).toEqual([1, 2, 3, 4, 5]);
 		expect(lane.rows.slice(0, 3).map((x) => x.id)).toEqual(second.wheels.map((w: { id: number }) => w.id));
@@ -113,7 +127,10 @@ describe('conflicts and refusals', () => {
 
 	it('a stale job version gets 409 with the current job; a started job cannot be cancelled', async () => {
 		const j = await job();
-		const edited = await as.writer.call('PATCH', `/api/jobs/${j.id}`, { version: j.version, notes: 'Customer waits in the lounge' });
+		const edited = await as.writer.call('PATCH', `/api/jobs/${j.id}`, {
+			version: j.version,
+			notes: 'Customer waits in the lounge'
+		});
 		expect(edited.status).toBe(200);
 		const stale = await as.lead.call('PATCH', `/api/jobs/${j.id}`, { version: j.version, priority: 3 });
 		expect(stale.status).toBe(409);
@@ -123,7 +140,10 @@ describe('conflicts and refusals', () => {
 		const v = moved.body.wheels.find((x: { id: number }) => x.id === w.id).version;
 		expect((await as.tech.call('PATCH', `/api/wheels/${w.id}`, { version: v, state: 'working' })).status).toBe(200);
 		const current = await as.writer.call('GET', `/api/jobs/${j.id}`);
-		const cancel = await as.writer.call('PATCH', `/api/jobs/${j.id}`, { version: current.body.version, state: 'cancelled' });
+		const cancel = await as.writer.call('PATCH', `/api/jobs/${j.id}`, {
+			version: current.body.version,
+			state: 'cancelled'
+		});
 		expect(cancel.status).toBe(422);
 		expect(cancel.body.message).toMatch(/only a job whose work has not started/);
 	});
@@ -167,7 +187,9 @@ describe('conflicts and refusals', () => {
 		expect([401, 403, 415]).toContain(plain.status);
 		const text = await as.lead.call('POST', '/api/wheels/move', undefined);
 		expect(text.status).toBe(415);
-		const outOfService = await withClient((c) => c.query('UPDATE bays SET active = false WHERE id = $1 RETURNING code', [store.bays[2].id]));
+		const outOfService = await withClient((c) =>
+			c.query('UPDATE bays SET active = false WHERE id = $1 RETURNING code', [store.bays[2].id])
+		);
 		try {
 			const r = await as.lead.call('PATCH', `/api/wheels/${w.id}`, { version: w.version, bayId: store.bays[2].id });
 			expect(r.status).toBe(422);

@@ -16,8 +16,22 @@ const appTables = async () =>
 	}, url);
 
 const expected = [
-	'audit', 'bays', 'customer_vehicles', 'customers', 'events', 'job_services', 'jobs', 'outbox', 'photos',
-	'services', 'signin_failures', 'stores', 'users', 'vehicles', 'wheel_records', 'wheels'
+	'audit',
+	'bays',
+	'customer_vehicles',
+	'customers',
+	'events',
+	'job_services',
+	'jobs',
+	'outbox',
+	'photos',
+	'services',
+	'signin_failures',
+	'stores',
+	'users',
+	'vehicles',
+	'wheel_records',
+	'wheels'
 ];
 
 beforeAll(async () => {
@@ -46,21 +60,26 @@ describe('migrations', () => {
 				const store = await c.query(`INSERT INTO stores (slug, name) VALUES ('check', 'Check store') RETURNING id`);
 				const storeId = store.rows[0].id;
 				await expect(
-					c.query(`INSERT INTO users (store_id, name, email, role, password_hash) VALUES ($1, 'x', 'x@x.test', 'owner', 'h')`, [storeId])
+					c.query(
+						`INSERT INTO users (store_id, name, email, role, password_hash) VALUES ($1, 'x', 'x@x.test', 'owner', 'h')`,
+						[storeId]
+					)
 				).rejects.toThrow(/users_role_check/);
 				await c.query('ROLLBACK');
 				await c.query('BEGIN');
 				const s2 = await c.query(`INSERT INTO stores (slug, name) VALUES ('check', 'Check store') RETURNING id`);
-				const customer = await c.query(`INSERT INTO customers (store_id, name) VALUES ($1, 'c') RETURNING id`, [s2.rows[0].id]);
+				const customer = await c.query(`INSERT INTO customers (store_id, name) VALUES ($1, 'c') RETURNING id`, [
+					s2.rows[0].id
+				]);
 				const job = await c.query(
 					`INSERT INTO jobs (store_id, number, customer_id, kind, promised_at) VALUES ($1, 1, $2, 'waiter', now()) RETURNING id, state, version`,
 					[s2.rows[0].id, customer.rows[0].id]
 				);
 				expect(job.rows[0]).toMatchObject({ state: 'waiting', version: 1 });
 				await c.query('SAVEPOINT s');
-				await expect(c.query(`INSERT INTO wheels (job_id, position) VALUES ($1, 'XX')`, [job.rows[0].id])).rejects.toThrow(
-					/wheels_position_check/
-				);
+				await expect(
+					c.query(`INSERT INTO wheels (job_id, position) VALUES ($1, 'XX')`, [job.rows[0].id])
+				).rejects.toThrow(/wheels_position_check/);
 				await c.query('ROLLBACK TO SAVEPOINT s');
 				await expect(
 					c.query(`INSERT INTO wheels (job_id, position, state) VALUES ($1, 'LF', 'working')`, [job.rows[0].id])

@@ -30,9 +30,18 @@ type Op =
 	| { kind: 'state'; wheel: number; to: 'working' | 'done' | 'queued' };
 
 const op: fc.Arbitrary<Op> = fc.oneof(
-	fc.record({ kind: fc.constant('move' as const), wheel: fc.nat(11), bay: fc.nat(3), place: fc.option(fc.integer({ min: 1, max: 8 })) }),
+	fc.record({
+		kind: fc.constant('move' as const),
+		wheel: fc.nat(11),
+		bay: fc.nat(3),
+		place: fc.option(fc.integer({ min: 1, max: 8 }))
+	}),
 	fc.record({ kind: fc.constant('moveJob' as const), job: fc.nat(2), bay: fc.nat(3) }),
-	fc.record({ kind: fc.constant('state' as const), wheel: fc.nat(11), to: fc.constantFrom('working' as const, 'done' as const, 'queued' as const) })
+	fc.record({
+		kind: fc.constant('state' as const),
+		wheel: fc.nat(11),
+		to: fc.constantFrom('working' as const, 'done' as const, 'queued' as const)
+	})
 );
 
 async function storeWheels(): Promise<WheelView[]> {
@@ -42,7 +51,16 @@ async function storeWheels(): Promise<WheelView[]> {
 			  WHERE j.store_id = $1 ORDER BY w.id`,
 			[store.id]
 		);
-		return rows.map((r) => ({ id: r.id, bayId: r.bay_id, queuePosition: r.queue_position, state: r.state, version: r.version }) as WheelView);
+		return rows.map(
+			(r) =>
+				({
+					id: r.id,
+					bayId: r.bay_id,
+					queuePosition: r.queue_position,
+					state: r.state,
+					version: r.version
+				}) as WheelView
+		);
 	});
 }
 
@@ -93,12 +111,19 @@ describe('bay queues under random operations', () => {
 					if (o.kind === 'move') {
 						const w = now.get(wheelIds[o.wheel % wheelIds.length])!;
 						await attempt(() =>
-							wheels.patch(lead, w.id, { version: w.version, bayId: bayOf(o.bay), ...(o.place && bayOf(o.bay) !== null ? { queuePosition: o.place } : {}) })
+							wheels.patch(lead, w.id, {
+								version: w.version,
+								bayId: bayOf(o.bay),
+								...(o.place && bayOf(o.bay) !== null ? { queuePosition: o.place } : {})
+							})
 						);
 					} else if (o.kind === 'moveJob') {
 						const job = made[o.job];
 						await attempt(() =>
-							queues.move(lead, { wheels: job.wheels.map((w) => ({ id: w.id, version: now.get(w.id)!.version })), bayId: bayOf(o.bay) })
+							queues.move(lead, {
+								wheels: job.wheels.map((w) => ({ id: w.id, version: now.get(w.id)!.version })),
+								bayId: bayOf(o.bay)
+							})
 						);
 					} else {
 						const w = now.get(wheelIds[o.wheel % wheelIds.length])!;

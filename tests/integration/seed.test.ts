@@ -7,8 +7,17 @@ const name = 'lugline_seed_check';
 let url: string;
 
 const tables = [
-	'stores', 'users', 'bays', 'services', 'vehicles', 'customers', 'customer_vehicles', 'jobs', 'job_services',
-	'wheels', 'wheel_records'
+	'stores',
+	'users',
+	'bays',
+	'services',
+	'vehicles',
+	'customers',
+	'customer_vehicles',
+	'jobs',
+	'job_services',
+	'wheels',
+	'wheel_records'
 ];
 
 async function counts(): Promise<Record<string, number>> {
@@ -61,7 +70,9 @@ describe('demo seed', () => {
 			expect(jobStates.rows.map((r) => r.state)).toEqual(['cancelled', 'collected', 'done', 'in_progress', 'waiting']);
 			const wheelStates = await db.query('SELECT DISTINCT state FROM wheels ORDER BY state');
 			expect(wheelStates.rows.map((r) => r.state)).toEqual(['done', 'queued', 'working']);
-			const waitingInNoBay = await db.query(`SELECT count(*)::int AS n FROM wheels WHERE bay_id IS NULL AND state = 'queued'`);
+			const waitingInNoBay = await db.query(
+				`SELECT count(*)::int AS n FROM wheels WHERE bay_id IS NULL AND state = 'queued'`
+			);
 			expect(waitingInNoBay.rows[0].n).toBeGreaterThan(0);
 		}, url);
 	});

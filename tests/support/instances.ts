@@ -28,7 +28,14 @@ export async function startInstances(ports: number[]): Promise<Instance[]> {
 	const instances = ports.map((port) => {
 		const url = `http://127.0.0.1:${port}`;
 		const child = spawn(process.execPath, ['build'], {
-			env: { ...process.env, HOST: '127.0.0.1', PORT: String(port), ORIGIN: url, AUTH_SECRET: testSecret, DATABASE_URL: testDatabaseUrl },
+			env: {
+				...process.env,
+				HOST: '127.0.0.1',
+				PORT: String(port),
+				ORIGIN: url,
+				AUTH_SECRET: testSecret,
+				DATABASE_URL: testDatabaseUrl
+			},
 			stdio: ['ignore', 'ignore', 'pipe']
 		});
 		child.stderr?.on('data', (d) => {

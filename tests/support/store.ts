@@ -14,26 +14,28 @@ export async function createTestStore(slug: string, bayCount = 4): Promise<TestS
 	const passwordHash = await hash(password);
 	return withClient(async (c) => {
 		await c.query('BEGIN');
-		const store = await c.query(
-			`INSERT INTO stores (slug, name, timezone) VALUES ($1, $2, 'UTC') RETURNING id`,
-			[slug, `Test store ${slug} (invented)`]
-		);
+		const store = await c.query(`INSERT INTO stores (slug, name, timezone) VALUES ($1, $2, 'UTC') RETURNING id`, [
+			slug,
+			`Test store ${slug} (invented)`
+		]);
 		const id = store.rows[0].id as number;
 		const bays = [];
 		for (let i = 1; i <= bayCount; i++) {
-			const b = await c.query(`INSERT INTO bays (store_id, code, name, position) VALUES ($1, $2, $3, $4) RETURNING id, code`, [
-				id,
-				`T${i}`,
-				`Test bay ${i}`,
-				i
-			]);
+			const b = await c.query(
+				`INSERT INTO bays (store_id, code, name, position) VALUES ($1, $2, $3, $4) RETURNING id, code`,
+				[id, `T${i}`, `Test bay ${i}`, i]
+			);
 			bays.push(b.rows[0]);
 		}
 		for (const [code, per] of [
 			['mount-balance', 'wheel'],
 			['rotation', 'job']
 		]) {
-			await c.query(`INSERT INTO services (store_id, code, name, standard_minutes, per) VALUES ($1, $2, $2, 10, $3)`, [id, code, per]);
+			await c.query(`INSERT INTO services (store_id, code, name, standard_minutes, per) VALUES ($1, $2, $2, 10, $3)`, [
+				id,
+				code,
+				per
+			]);
 		}
 		const people: Partial<TestStore['people']> = {};
 		for (const [key, role] of [

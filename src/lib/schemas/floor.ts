@@ -169,6 +169,8 @@ export interface BoardSnapshot {
 	bays: (BayView & { wheels: WheelView[] })[];
 	waiting: (JobView & { wheels: WheelView[] })[];
 	jobs: JobView[];
+	/** Every wheel of the jobs above, done ones included. */
+	wheels: WheelView[];
 	counters: { wheelsDone: number; wheelsPlanned: number; minPerWheel: number | null };
 	cursor: number;
 }

@@ -33,7 +33,11 @@ function issuesOf(error: z.ZodError): ApiIssue[] {
 export async function readJson<T extends z.ZodType>(request: Request, schema: T): Promise<z.infer<T>> {
 	const type = request.headers.get('content-type') ?? '';
 	if (!/^application\/json\s*(;|$)/i.test(type)) {
-		throw new ApiError(415, 'unsupported_media_type', 'Send the request body as JSON (Content-Type: application/json).');
+		throw new ApiError(
+			415,
+			'unsupported_media_type',
+			'Send the request body as JSON (Content-Type: application/json).'
+		);
 	}
 	let body: unknown;
 	try {
@@ -51,7 +55,12 @@ export function parse<T extends z.ZodType>(schema: T, value: unknown): z.infer<T
 	const parsed = schema.safeParse(value);
 	if (!parsed.success) {
 		const issues = issuesOf(parsed.error);
-		throw new ApiError(400, 'invalid_input', `Check ${issues.map((i) => i.path).join(', ')}: ${issues[0].message}`, issues);
+		throw new ApiError(
+			400,
+			'invalid_input',
+			`Check ${issues.map((i) => i.path).join(', ')}: ${issues[0].message}`,
+			issues
+		);
 	}
 	return parsed.data;
 }

@@ -4,6 +4,7 @@
 import { SvelteKitAuth, CredentialsSignin } from '@auth/sveltekit';
 import Credentials from '@auth/sveltekit/providers/credentials';
 import { Auth, raw, skipCSRFCheck, setEnvDefaults, type AuthConfig } from '@auth/core';
+import { decode, getToken, type JWT } from '@auth/core/jwt';
 import type { RequestEvent } from '@sveltejs/kit';
 import { env } from '$env/dynamic/private';
 import { config } from './config';
@@ -75,13 +76,13 @@ export function authConfig(): AuthConfig {
 		pages: { signIn: '/signin', error: '/signin' },
 		// The built app ignores AUTH_TRUST_HOST; ORIGIN and SvelteKit's origin check guard the host instead.
 		trustHost: true,
-	logger: {
-		error(error) {
-			// A refused sign-in is expected traffic: one line without a stack, and never the password.
-			if (error instanceof CredentialsSignin) console.warn(`[auth] sign-in refused (${error.code})`);
-			else console.error('[auth]', error);
-		}
-	},
+		logger: {
+			error(error) {
+				// A refused sign-in is expected traffic: one line without a stack, and never the password.
+				if (error instanceof CredentialsSignin) console.warn(`[auth] sign-in refused (${error.code})`);
+				else console.error('[auth]', error);
+			}
+		},
 		secret: config().AUTH_SECRET,
 		callbacks: {
 			async jwt({ token, user }) {
@@ -89,31 +90,76 @@ export function authConfig(): AuthConfig {
 					const u = user as unknown as { id: string; storeId: number; role: Role; sessionVersion: number };
 					return { ...token, uid: Number(u.id), storeId: u.storeId, role: u.role, sv: u.sessionVersion };
 				}
-				try {
-					const current = await users.readForSession(Number(token.uid));
-					if (!current || !current.active || current.sessionVersion !== token.sv) return null;
-					const { unverified: _, ...rest } = token;
-					return { ...rest, storeId: current.storeId, role: current.role, name: current.name, email: current.email };
-				} catch (error) {
-					// Signing everyone out because the database restarted would be worse than a brief 503.
-					if (isDatabaseUnavailable(error)) return { ...token, unverified: true };
-					throw error;
-				}
+				return recheck(token);
 			},
 			session({ session, token }) {
-				const staff: StaffSession = {
-					userId: Number(token.uid),
-					storeId: Number(token.storeId),
-					role: token.role as Role,
-					name: String(token.name ?? ''),
-					email: String(token.email ?? ''),
-					sessionVersion: Number(token.sv),
-					unverified: token.unverified === true
-				};
+				const staff = toStaff(token);
 				return { ...session, staff };
 			}
 		}
 	});
+}
+
+/**
+ * The per-request check of a session's user, shared by Auth.js's `jwt` callback (pages) and the API fast path:
+ * a disabled account, a bumped session version or a removed user ends the session; a changed role or store is
+ * taken from the database, not the token.
+ */
+async function recheck(token: JWT): Promise<JWT | null> {
+	try {
+		const current = await users.readForSession(Number(token.uid));
+		if (!current || !current.active || current.sessionVersion !== token.sv) return null;
+		const { unverified: _, ...rest } = token;
+		return { ...rest, storeId: current.storeId, role: current.role, name: current.name, email: current.email };
+	} catch (error) {
+		// Signing everyone out because the database restarted would be worse than a brief 503.
+		if (isDatabaseUnavailable(error)) return { ...token, unverified: true };
+		throw error;
+	}
+}
+
+function toStaff(token: JWT): StaffSession {
+	return {
+		userId: Number(token.uid),
+		storeId: Number(token.storeId),
+		role: token.role as Role,
+		name: String(token.name ?? ''),
+		email: String(token.email ?? ''),
+		sessionVersion: Number(token.sv),
+		unverified: token.unverified === true
+	};
+}
+
+// Decrypted session cookies of this instance, by cookie value. Decrypting is the costly part of a check; the user
+// is still re-read from the database on every request.
+const decoded = new Map<string, JWT>();
+const DECODED_MAX = 10_000;
+
+/**
+ * The session of a JSON API request. Does what Auth.js's session check does (decrypt the cookie, check expiry,
+ * re-read the user) without re-encrypting and re-sending the cookie on every call: screens make many API calls a
+ * minute, and page loads keep the cookie's rolling expiry fresh.
+ */
+export async function apiSession(request: Request, secure: boolean): Promise<StaffSession | null> {
+	const cookieName = `${secure ? '__Secure-' : ''}authjs.session-token`;
+	const rawToken = (await getToken({ req: request, secret: config().AUTH_SECRET, secureCookie: secure, raw: true })) as
+		string | null;
+	if (!rawToken) return null;
+	let token = decoded.get(rawToken);
+	if (!token) {
+		token =
+			(await decode({ token: rawToken, secret: config().AUTH_SECRET, salt: cookieName }).catch(() => null)) ??
+			undefined;
+		if (!token) return null;
+		if (decoded.size >= DECODED_MAX) decoded.delete(decoded.keys().next().value!);
+		decoded.set(rawToken, token);
+	}
+	if (typeof token.exp === 'number' && token.exp * 1000 < Date.now()) {
+		decoded.delete(rawToken);
+		return null;
+	}
+	const checked = await recheck(token);
+	return checked ? toStaff(checked) : null;
 }
 
 export const { handle: authHandle, signOut } = SvelteKitAuth(async () => authConfig());

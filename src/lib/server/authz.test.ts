@@ -55,7 +55,9 @@ describe('the authorisation table covers every route', () => {
 			}
 			if (route.methods.length) {
 				expect(rule.kind).toBe('api');
-				expect(route.methods, 'a catch-all `fallback` handler cannot be authorised per method').not.toContain('fallback');
+				expect(route.methods, 'a catch-all `fallback` handler cannot be authorised per method').not.toContain(
+					'fallback'
+				);
 				const listed = rule.kind === 'api' ? Object.keys(rule.methods) : [];
 				expect(listed.sort(), `methods of ${route.id}`).toEqual([...route.methods].sort());
 			}

@@ -34,6 +34,7 @@ export const authorisation: Record<string, Rule> = {
 	'/api/health': { kind: 'api', methods: { GET: 'public' } },
 	'/api/me': { kind: 'api', methods: { GET: 'staff' } },
 	'/api/board': { kind: 'api', methods: { GET: 'staff' } },
+	'/api/customers': { kind: 'api', methods: { GET: 'staff' } },
 	'/api/events': { kind: 'api', methods: { POST: 'staff' } },
 	'/api/jobs': { kind: 'api', methods: { POST: counter } },
 	'/api/jobs/[id=id]': { kind: 'api', methods: { GET: 'staff', PATCH: counter } },

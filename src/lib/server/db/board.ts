@@ -15,16 +15,11 @@ export async function snapshot(storeId: number): Promise<BoardSnapshot> {
 				.first();
 			if (!store) throw new NotFound('Your store no longer exists.');
 			const bays = await bayViews(trx, storeId);
-			// On the floor: everything not yet finished, and finished cars not yet handed back (from the last day).
-			const jobIds: number[] = (
-				await trx('jobs')
-					.select('id')
-					.where({ store_id: storeId })
-					.where((q) =>
-						q.whereIn('state', ['waiting', 'in_progress']).orWhere((d) => d.where('state', 'done').andWhereRaw(`done_at > now() - interval '1 day'`))
-					)
-			).map((r: { id: number }) => r.id);
-			const [jobs, wheels] = await Promise.all([jobViews(trx, jobIds), wheelViewsOfJobs(trx, jobIds)]);
+			const jobs = await jobViews(trx, { floorOf: storeId });
+			const wheels = await wheelViewsOfJobs(
+				trx,
+				jobs.map((j) => j.id)
+			);
 			const counters = await trx.raw(
 				`WITH today AS (SELECT (now() AT TIME ZONE s.timezone)::date AS d, s.timezone AS tz FROM stores s WHERE s.id = ?)
 				 SELECT
@@ -34,7 +29,9 @@ export async function snapshot(storeId: number): Promise<BoardSnapshot> {
 				     WHERE j.store_id = ? AND j.state <> 'cancelled' AND (j.promised_at AT TIME ZONE today.tz)::date = today.d)::int AS planned,
 				   (SELECT avg(EXTRACT(EPOCH FROM (w.finished_at - w.started_at)) / 60) FROM wheels w JOIN jobs j ON j.id = w.job_id, today
 				     WHERE j.store_id = ? AND w.state = 'done' AND (w.finished_at AT TIME ZONE today.tz)::date = today.d) AS min_per_wheel,
-				   (SELECT coalesce(max(id), 0) FROM events WHERE store_id = ?) AS cursor`,
+				   -- Any id up to the newest is a valid resume point: events commit in id order, and replay filters by store.
+				   -- Never below the pruned mark, or a store quiet for longer than the kept window could never resume.
+				   greatest((SELECT coalesce(max(id), 0) FROM events), (SELECT events_pruned_to FROM stores WHERE id = ?)) AS cursor`,
 				[storeId, storeId, storeId, storeId, storeId]
 			);
 			const c = counters.rows[0];
@@ -50,13 +47,19 @@ export async function snapshot(storeId: number): Promise<BoardSnapshot> {
 				.filter((j: JobView) => (wheelsByJob.get(j.id) ?? []).some((w) => w.bayId === null && w.state === 'queued'))
 				.map((j) => ({ ...j, wheels: wheelsByJob.get(j.id) ?? [] }));
 			return {
-				store: { id: store.id, name: store.name, timezone: store.timezone, targetMinPerWheel: store.target_min_per_wheel },
+				store: {
+					id: store.id,
+					name: store.name,
+					timezone: store.timezone,
+					targetMinPerWheel: store.target_min_per_wheel
+				},
 				bays: bays.map((b) => ({
 					...b,
 					wheels: (wheelsByBay.get(b.id) ?? []).sort((x, y) => (x.queuePosition ?? 0) - (y.queuePosition ?? 0))
 				})),
 				waiting,
 				jobs,
+				wheels,
 				counters: {
 					wheelsDone: c.done,
 					wheelsPlanned: c.planned,

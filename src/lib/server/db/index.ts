@@ -52,10 +52,18 @@ const unavailableCodes = new Set([
 
 /** True when an error means "the database cannot be reached right now" rather than a bug or bad input. */
 export function isDatabaseUnavailable(error: unknown): boolean {
-	for (let e = error as { code?: string; name?: string; message?: string; cause?: unknown } | undefined, depth = 0; e && depth < 5; e = e.cause as typeof e, depth++) {
+	for (
+		let e = error as { code?: string; name?: string; message?: string; cause?: unknown } | undefined, depth = 0;
+		e && depth < 5;
+		e = e.cause as typeof e, depth++
+	) {
 		if (e.code && unavailableCodes.has(e.code)) return true;
 		if (e.name === 'KnexTimeoutError') return true;
-		if (typeof e.message === 'string' && /Connection terminated|connection timeout|Timeout acquiring a connection|Connection ended/i.test(e.message)) return true;
+		if (
+			typeof e.message === 'string' &&
+			/Connection terminated|connection timeout|Timeout acquiring a connection|Connection ended/i.test(e.message)
+		)
+			return true;
 	}
 	return false;
 }

@@ -59,10 +59,14 @@ export async function create(actor: Actor, input: CreateJob): Promise<JobDetail>
 		const customerId = await customerFor(trx, actor, input);
 		const { customerVehicleId, vehicleId } = await vehicleFor(trx, customerId, input);
 		const services: { id: number; code: string }[] = input.services.length
-			? await trx('services').select('id', 'code').where({ store_id: actor.storeId, active: true }).whereIn('code', input.services)
+			? await trx('services')
+					.select('id', 'code')
+					.where({ store_id: actor.storeId, active: true })
+					.whereIn('code', input.services)
 			: [];
 		const unknown = input.services.filter((code) => !services.some((s) => s.code === code));
-		if (unknown.length) throw new NotAllowedNow(`Unknown or retired service code: ${unknown.join(', ')}.`, 'unknown_service');
+		if (unknown.length)
+			throw new NotAllowedNow(`Unknown or retired service code: ${unknown.join(', ')}.`, 'unknown_service');
 
 		// The store's counter hands out numbers a writer can say aloud; its row lock keeps them unique and gap-free.
 		const counter = await trx('stores')
@@ -97,7 +101,10 @@ export async function create(actor: Actor, input: CreateJob): Promise<JobDetail>
 			entity: 'job',
 			entityId: job.id,
 			jobs: await jobViews(trx, [job.id]),
-			wheels: await wheelViews(trx, wheelRows.map((w) => w.id))
+			wheels: await wheelViews(
+				trx,
+				wheelRows.map((w) => w.id)
+			)
 		});
 		return detail;
 	});
@@ -129,7 +136,9 @@ export async function update(actor: Actor, id: number, patch: PatchJob): Promise
 		let changedWheels: number[] = [];
 		if (patch.state === 'cancelled') {
 			if (job.state !== 'waiting') {
-				throw new NotAllowedNow(`Job ${job.number} is ${job.state.replace('_', ' ')}: only a job whose work has not started can be cancelled.`);
+				throw new NotAllowedNow(
+					`Job ${job.number} is ${job.state.replace('_', ' ')}: only a job whose work has not started can be cancelled.`
+				);
 			}
 			const started = await trx('wheels').where({ job_id: id }).whereNotNull('started_at').first('id');
 			if (started) throw new NotAllowedNow(`Work on job ${job.number} has started: it can no longer be cancelled.`);
@@ -137,7 +146,8 @@ export async function update(actor: Actor, id: number, patch: PatchJob): Promise
 			changes.state = 'cancelled';
 			type = 'job.cancelled';
 		} else if (patch.state === 'collected') {
-			if (job.state !== 'done') throw new NotAllowedNow(`Job ${job.number} is not done yet, so it cannot be handed back.`);
+			if (job.state !== 'done')
+				throw new NotAllowedNow(`Job ${job.number} is not done yet, so it cannot be handed back.`);
 			Object.assign(changes, { state: 'collected', collected_at: trx.fn.now() });
 			type = 'job.collected';
 		} else if (job.state === 'cancelled' || job.state === 'collected') {

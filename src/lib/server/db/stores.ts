@@ -20,7 +20,7 @@ export async function floorCounts(storeId: number): Promise<Record<string, numbe
 	const rows: { state: string; n: number }[] = await db()('jobs')
 		.join('stores', 'stores.id', 'jobs.store_id')
 		.where('jobs.store_id', storeId)
-		.whereRaw("(jobs.promised_at AT TIME ZONE stores.timezone)::date = (now() AT TIME ZONE stores.timezone)::date")
+		.whereRaw('(jobs.promised_at AT TIME ZONE stores.timezone)::date = (now() AT TIME ZONE stores.timezone)::date')
 		.groupBy('jobs.state')
 		.select('jobs.state', db().raw('count(*)::int AS n'));
 	return Object.fromEntries(rows.map((r) => [r.state, r.n]));

@@ -13,12 +13,20 @@ import { jobViews, wheelViews } from './views';
 import { db } from './index';
 
 export async function read(actor: Actor, id: number): Promise<WheelView> {
-	const row = await db()('wheels as w').join('jobs as j', 'j.id', 'w.job_id').select('j.store_id').where('w.id', id).first();
+	const row = await db()('wheels as w')
+		.join('jobs as j', 'j.id', 'w.job_id')
+		.select('j.store_id')
+		.where('w.id', id)
+		.first();
 	if (!row || row.store_id !== actor.storeId) throw new NotFound('No such wheel in your store.');
 	return (await wheelViews(db(), [id]))[0];
 }
 
-export async function patch(actor: Actor, id: number, change: PatchWheel): Promise<{ wheels: WheelView[] }> {
+export async function patch(
+	actor: Actor,
+	id: number,
+	change: PatchWheel
+): Promise<{ wheels: WheelView[]; eventId: number }> {
 	if (change.state === undefined) {
 		if (!leads(actor)) throw new Forbidden('Only a lead or a manager moves wheels between bays.');
 		let bayId = change.bayId;
@@ -55,7 +63,12 @@ function mayDo(actor: Actor, what: Transition, bay: BayRow | undefined, wheelTec
 	}
 }
 
-async function setState(actor: Actor, id: number, version: number, to: WheelState): Promise<{ wheels: WheelView[] }> {
+async function setState(
+	actor: Actor,
+	id: number,
+	version: number,
+	to: WheelState
+): Promise<{ wheels: WheelView[]; eventId: number }> {
 	return inTransaction(async (trx) => {
 		const peek = await trx('wheels as w')
 			.join('jobs as j', 'j.id', 'w.job_id')
@@ -81,30 +94,38 @@ async function setState(actor: Actor, id: number, version: number, to: WheelStat
 			if (!bay) throw new NotAllowedNow('Put the wheel in a bay before starting it.');
 			if (!bay.active) throw new NotAllowedNow(`Bay ${bay.code} is out of service.`);
 			const tech = actor.role === 'tech' ? actor.userId : (bay.tech_id ?? actor.userId);
-			await trx('wheels').where({ id }).update({ ...base, state: 'working', started_at: now, finished_at: null, tech_id: tech });
+			await trx('wheels')
+				.where({ id })
+				.update({ ...base, state: 'working', started_at: now, finished_at: null, tech_id: tech });
 		} else if (what === 'finish') {
-			await trx('wheels').where({ id }).update({ ...base, state: 'done', finished_at: now, queue_position: null });
+			await trx('wheels')
+				.where({ id })
+				.update({ ...base, state: 'done', finished_at: now, queue_position: null });
 		} else if (what === 'stop') {
-			await trx('wheels').where({ id }).update({ ...base, state: 'queued', started_at: null, tech_id: null });
+			await trx('wheels')
+				.where({ id })
+				.update({ ...base, state: 'queued', started_at: null, tech_id: null });
 		} else {
 			// Reopened work goes to the end of its bay's queue, or back to the waiting line if the bay is out of service.
 			const back = bay?.active ? bay.id : null;
-			await trx('wheels').where({ id }).update({
-				...base,
-				state: 'queued',
-				started_at: null,
-				finished_at: null,
-				tech_id: null,
-				bay_id: back,
-				queue_position: back === null ? null : 100_000
-			});
+			await trx('wheels')
+				.where({ id })
+				.update({
+					...base,
+					state: 'queued',
+					started_at: null,
+					finished_at: null,
+					tech_id: null,
+					bay_id: back,
+					queue_position: back === null ? null : 100_000
+				});
 		}
 		if (wheel.bay_id !== null) for (const w of await renumber(trx, wheel.bay_id)) changed.add(w);
 
 		const jobChanged = await settleJob(trx, job.id, job.state);
 		await audit.record(trx, actor, what, 'wheel', id, { job: job.number, bay: bay?.code ?? null });
 		const views = await wheelViews(trx, [...changed]);
-		await events.append(trx, {
+		const eventId = await events.append(trx, {
 			storeId: actor.storeId,
 			type: `wheel.${what === 'start' ? 'started' : what === 'finish' ? 'finished' : what === 'stop' ? 'stopped' : 'reopened'}`,
 			entity: 'wheel',
@@ -113,7 +134,7 @@ async function setState(actor: Actor, id: number, version: number, to: WheelStat
 			jobs: jobChanged ? await jobViews(trx, [job.id]) : [],
 			bays: []
 		});
-		return { wheels: views };
+		return { wheels: views, eventId };
 	});
 }
 
@@ -126,7 +147,8 @@ async function settleJob(trx: Knex.Transaction, jobId: number, current: JobState
 		.groupBy('state');
 	const n = (s: WheelState) => Number(counts.find((c) => c.state === s)?.n ?? 0);
 	const total = n('queued') + n('working') + n('done');
-	const next: JobState = total > 0 && n('done') === total ? 'done' : n('working') + n('done') > 0 ? 'in_progress' : 'waiting';
+	const next: JobState =
+		total > 0 && n('done') === total ? 'done' : n('working') + n('done') > 0 ? 'in_progress' : 'waiting';
 	if (next === current) return false;
 	await trx('jobs')
 		.where({ id: jobId })
@@ -138,4 +160,3 @@ async function settleJob(trx: Knex.Transaction, jobId: number, current: JobState
 		});
 	return true;
 }
-

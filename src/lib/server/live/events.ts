@@ -10,7 +10,6 @@ import type { Knex } from 'knex';
 import type { BayView, JobView, WheelView } from '$lib/schemas/floor';
 
 export const CHANNEL = 'lugline_events';
-const ORDER_LOCK = 0x4c75676c; // 'Lugl': the one lock that orders event commits
 
 export interface NewEvent {
 	storeId: number;
@@ -22,18 +21,32 @@ export interface NewEvent {
 	bays?: BayView[];
 }
 
-export async function append(trx: Knex.Transaction, event: NewEvent): Promise<number> {
-	await trx.raw('SELECT pg_advisory_xact_lock(?)', [ORDER_LOCK]);
-	const [{ id }] = await trx('events')
-		.insert({
-			store_id: event.storeId,
-			type: event.type,
-			entity: event.entity,
-			entity_id: event.entityId,
-			payload: JSON.stringify({ jobs: event.jobs ?? [], wheels: event.wheels ?? [], bays: event.bays ?? [] })
-		})
-		.returning('id');
+/** The audit row of the same change, written in the same round trip as the event. */
+export interface AuditEntry {
+	userId: number;
+	action: string;
+	detail?: Record<string, unknown>;
+}
+
+export async function append(trx: Knex.Transaction, event: NewEvent, audit?: AuditEntry): Promise<number> {
+	const payload = JSON.stringify({ jobs: event.jobs ?? [], wheels: event.wheels ?? [], bays: event.bays ?? [] });
+	// Lock, insert and notify happen in the database function (migrations/…_append-event-function.ts): one round trip.
 	// Only the id travels in the notification (its payload must stay under 8000 bytes); listeners read the row.
-	await trx.raw('SELECT pg_notify(?, ?)', [CHANNEL, String(id)]);
-	return Number(id);
+	const call = 'SELECT lugline_append_event(?, ?, ?, ?, ?::jsonb) AS id';
+	const bindings = [event.storeId, event.type, event.entity, event.entityId, payload];
+	const { rows } = audit
+		? await trx.raw(
+				`WITH audit_row AS (INSERT INTO audit (store_id, user_id, action, entity, entity_id, detail) VALUES (?, ?, ?, ?, ?, ?::jsonb)) ${call}`,
+				[
+					event.storeId,
+					audit.userId,
+					audit.action,
+					event.entity,
+					event.entityId,
+					JSON.stringify(audit.detail ?? {}),
+					...bindings
+				]
+			)
+		: await trx.raw(call, bindings);
+	return Number(rows[0].id);
 }

@@ -66,7 +66,10 @@ async function connect(): Promise<void> {
 		const row = await db()('events').max({ max: 'id' }).first();
 		lastSeen = Number(row?.max ?? 0);
 	}
-	const c = new pg.Client({ connectionString: config().DATABASE_URL, application_name: `lugline-listen:${process.env.PORT ?? 'dev'}` });
+	const c = new pg.Client({
+		connectionString: config().DATABASE_URL,
+		application_name: `lugline-listen:${process.env.PORT ?? 'dev'}`
+	});
 	c.on('notification', () => void catchUp());
 	const dropped = () => {
 		if (client !== c) return;
@@ -86,7 +89,9 @@ async function connect(): Promise<void> {
 	connectedAt = Date.now();
 	retryMs = 250;
 	poll ??= setInterval(() => void catchUp(), POLL_MS);
+	poll.unref();
 	prune ??= setInterval(() => void pruneOnce(), PRUNE_MS);
+	prune.unref();
 	// Whatever committed while we were not listening.
 	await catchUp();
 }
@@ -138,7 +143,13 @@ export function catchUp(): Promise<void> {
 	return fetching;
 }
 
-export function toDelivered(row: { id: number; store_id: number; type: string; payload: object; created_at: Date }): Delivered {
+export function toDelivered(row: {
+	id: number;
+	store_id: number;
+	type: string;
+	payload: object;
+	created_at: Date;
+}): Delivered {
 	const id = Number(row.id);
 	const body = { id, type: row.type, at: new Date(row.created_at).toISOString(), ...(row.payload as object) };
 	return { id, storeId: row.store_id, json: JSON.stringify(body) };

@@ -15,6 +15,7 @@ let timer: ReturnType<typeof setInterval> | null = null;
 export function watch(entry: Watched): () => void {
 	watched.add(entry);
 	timer ??= setInterval(() => void check(), CHECK_MS);
+	timer.unref();
 	return () => {
 		watched.delete(entry);
 		if (watched.size === 0 && timer) {
