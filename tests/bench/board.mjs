@@ -47,7 +47,7 @@ async function level(concurrency) {
 				sizes.add(r.bytes);
 				if (!wheels) {
 					const b = JSON.parse(r.text);
-					wheels = b.bays.reduce((n, bay) => n + bay.wheels.length, 0);
+					wheels = b.bays.reduce((n, bay) => n + bay.wheelIds.length, 0);
 				}
 			}
 		})

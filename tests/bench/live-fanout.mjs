@@ -61,7 +61,9 @@ const writerCookie = await signIn(urlA, leadEmail);
 const board = await json('GET', `${urlA}/api/board`, { cookie: writerCookie });
 if (board.status !== 200) throw new Error(`GET /api/board answered ${board.status}`);
 const cursor = board.body.cursor;
-const active = board.body.bays.filter((b) => b.active);
+// The snapshot sends each wheel once and the bays refer to them by id, in queue order.
+const wheelById = new Map(board.body.wheels.map((w) => [w.id, w]));
+const active = board.body.bays.filter((b) => b.active).map((b) => ({ ...b, wheels: b.wheelIds.map((id) => wheelById.get(id)) }));
 // The last two bays: the wheel-moves bench uses the first ones, so a run after it finds its wheels back home.
 const [bayX, bayY] = active.slice(-2);
 const queued = bayX.wheels.filter((w) => w.state === 'queued');

@@ -28,7 +28,9 @@ assertLoopback(urlA);
 const cookie = await signIn(urlA, leadEmail);
 const board = await json('GET', `${urlA}/api/board`, { cookie });
 if (board.status !== 200) throw new Error(`GET /api/board answered ${board.status}`);
-const bays = board.body.bays.filter((b) => b.active);
+// The snapshot sends each wheel once and the bays refer to them by id, in queue order.
+const wheelById = new Map(board.body.wheels.map((w) => [w.id, w]));
+const bays = board.body.bays.filter((b) => b.active).map((b) => ({ ...b, wheels: b.wheelIds.map((id) => wheelById.get(id)) }));
 if (bays.length < clients * 2) throw new Error(`${clients} clients need ${clients * 2} active bays; the board has ${bays.length}`);
 
 const movers = [];

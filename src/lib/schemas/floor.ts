@@ -11,10 +11,18 @@ export type JobKind = (typeof jobKinds)[number];
 export type JobState = (typeof jobStates)[number];
 export type WheelState = (typeof wheelStates)[number];
 
-const id = z.number({ error: 'Must be a number' }).int('Must be a whole number').positive('Must be a positive id').max(2_147_483_647);
+const id = z
+	.number({ error: 'Must be a number' })
+	.int('Must be a whole number')
+	.positive('Must be a positive id')
+	.max(2_147_483_647);
 const version = z.number({ error: 'Send the version the screen showed' }).int().positive().max(2_147_483_647);
-const trimmed = (max: number, what: string) => z.string().trim().max(max, `${what} is too long (at most ${max} characters)`);
-const isoInstant = z.iso.datetime({ offset: true, error: 'Use an ISO 8601 date and time with a time zone, e.g. 2026-12-02T15:30:00Z' });
+const trimmed = (max: number, what: string) =>
+	z.string().trim().max(max, `${what} is too long (at most ${max} characters)`);
+const isoInstant = z.iso.datetime({
+	offset: true,
+	error: 'Use an ISO 8601 date and time with a time zone, e.g. 2026-12-02T15:30:00Z'
+});
 
 /** Notes are free text from the counter; long enough for a pasted history, short enough to keep a row sane. */
 export const NOTES_MAX = 120_000;
@@ -164,10 +172,16 @@ export interface FloorEvent {
 	bays: BayView[];
 }
 
+/**
+ * The floor in one snapshot. Each job and each wheel is sent once (`jobs`, `wheels`); bays and the waiting line
+ * refer to them by id, in order, which keeps the snapshot small on a floor with a thousand wheels.
+ */
 export interface BoardSnapshot {
 	store: { id: number; name: string; timezone: string; targetMinPerWheel: number };
-	bays: (BayView & { wheels: WheelView[] })[];
-	waiting: (JobView & { wheels: WheelView[] })[];
+	/** Bays in order, each with its queued and working wheels in queue order. */
+	bays: (BayView & { wheelIds: number[] })[];
+	/** Jobs with a wheel not yet in a bay, by promised time, with those wheels. */
+	waiting: { jobId: number; wheelIds: number[] }[];
 	jobs: JobView[];
 	/** Every wheel of the jobs above, done ones included. */
 	wheels: WheelView[];

@@ -100,9 +100,10 @@ const floorEventSchema = z.looseObject({
 });
 const snapshotSchema = z.looseObject({
 	store: z.looseObject({ timezone: z.string() }),
-	bays: z.array(z.looseObject({ wheels: z.array(versioned) })),
-	waiting: z.array(z.looseObject({ wheels: z.array(versioned) })),
+	bays: z.array(z.looseObject({ id: z.number().int(), wheelIds: z.array(z.number().int()) })),
+	waiting: z.array(z.looseObject({ jobId: z.number().int(), wheelIds: z.array(z.number().int()) })),
 	jobs: z.array(versioned),
+	wheels: z.array(versioned),
 	counters: z.looseObject({ wheelsDone: z.number(), wheelsPlanned: z.number() }),
 	cursor: z.number().int().min(0)
 });

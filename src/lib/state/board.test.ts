@@ -450,17 +450,12 @@ describe('changes', () => {
 		expect(placesIn(board, 2)).toBe('31:1 41:2');
 
 		sources.last().emit('floor', event(11, { wheels: moved }));
-		sources
-			.last()
-			.emit(
-				'floor',
-				event(12, {
-					wheels: [
-						wheel(31, 3, { bayId: 2, queuePosition: 1, version: 3 }),
-						wheel(41, 4, { bayId: 2, queuePosition: 2 })
-					]
-				})
-			);
+		sources.last().emit(
+			'floor',
+			event(12, {
+				wheels: [wheel(31, 3, { bayId: 2, queuePosition: 1, version: 3 }), wheel(41, 4, { bayId: 2, queuePosition: 2 })]
+			})
+		);
 		expect(board.floor).toBe(board.confirmed);
 	});
 

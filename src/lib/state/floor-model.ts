@@ -47,14 +47,12 @@ export function onFloor(job: JobView | undefined): job is JobView {
 export function fromSnapshot(snapshot: BoardSnapshot, now: Date = new Date()): Floor {
 	const wheels = new Map<number, WheelView>();
 	// The snapshot lists a wheel under its bay or under its waiting job; a job can be in both places.
-	for (const bay of snapshot.bays) for (const w of bay.wheels) wheels.set(w.id, w);
-	for (const job of snapshot.waiting) for (const w of job.wheels) wheels.set(w.id, w);
-	// Every wheel of every job on the floor, done ones included (so a job can show "2 of 4 done").
-	for (const w of snapshot.wheels ?? []) wheels.set(w.id, w);
+	// Every wheel of every job on the floor, done ones included (so a job can show "2 of 4 done"); the bays and the
+	// waiting line in the snapshot only refer to them by id, and the lanes are derived from the rows themselves.
+	for (const w of snapshot.wheels) wheels.set(w.id, w);
 	const jobs = new Map<number, JobView>();
 	for (const j of snapshot.jobs) jobs.set(j.id, j);
-	for (const { wheels: _, ...j } of snapshot.waiting) if (!jobs.has(j.id)) jobs.set(j.id, j);
-	const bays = new Map<number, BayView>(snapshot.bays.map(({ wheels: _, ...b }) => [b.id, b]));
+	const bays = new Map<number, BayView>(snapshot.bays.map(({ wheelIds: _, ...b }) => [b.id, b]));
 	const day = dayIn(snapshot.store.timezone);
 	const today = day(now.toISOString());
 	return {

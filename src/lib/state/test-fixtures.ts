@@ -57,16 +57,21 @@ export function snapshotOf(rows: {
 	counters?: BoardSnapshot['counters'];
 	timezone?: string;
 }): BoardSnapshot {
-	const waiting = rows.jobs
-		.map((j) => ({ ...j, wheels: rows.wheels.filter((w) => w.jobId === j.id) }))
-		.filter((j) => j.wheels.some((w) => w.bayId === null && w.state === 'queued'));
+	const waiting = [...rows.jobs]
+		.sort((a, b) => a.promisedAt.localeCompare(b.promisedAt) || a.id - b.id)
+		.map((j) => ({
+			jobId: j.id,
+			wheelIds: rows.wheels.filter((w) => w.jobId === j.id && w.bayId === null && w.state === 'queued').map((w) => w.id)
+		}))
+		.filter((j) => j.wheelIds.length > 0);
 	return {
 		store: { id: 1, name: 'Test store', timezone: rows.timezone ?? 'UTC', targetMinPerWheel: 12 },
 		bays: rows.bays.map((b) => ({
 			...b,
-			wheels: rows.wheels
+			wheelIds: rows.wheels
 				.filter((w) => w.bayId === b.id && w.state !== 'done')
 				.sort((x, y) => (x.queuePosition ?? 0) - (y.queuePosition ?? 0))
+				.map((w) => w.id)
 		})),
 		waiting,
 		jobs: rows.jobs,

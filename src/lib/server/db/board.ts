@@ -1,7 +1,7 @@
 // The store's floor in one consistent snapshot, with the cursor (newest event id) it includes. Read in one
 // REPEATABLE READ transaction: since events commit in id order (see live/events.ts), every event up to the cursor
 // is in the snapshot and none after it.
-import type { BoardSnapshot, JobView, WheelView } from '$lib/schemas/floor';
+import type { BoardSnapshot, WheelView } from '$lib/schemas/floor';
 import { NotFound } from '../errors';
 import { db } from './index';
 import { bayViews, jobViews, wheelViewsOfJobs } from './views';
@@ -35,17 +35,15 @@ export async function snapshot(storeId: number): Promise<BoardSnapshot> {
 				[storeId, storeId, storeId, storeId, storeId]
 			);
 			const c = counters.rows[0];
-			const wheelsByBay = new Map<number, WheelView[]>();
-			const wheelsByJob = new Map<number, WheelView[]>();
+			const lanes = new Map<number, WheelView[]>();
 			for (const w of wheels) {
-				if (w.bayId !== null && w.state !== 'done') {
-					wheelsByBay.set(w.bayId, [...(wheelsByBay.get(w.bayId) ?? []), w]);
-				}
-				wheelsByJob.set(w.jobId, [...(wheelsByJob.get(w.jobId) ?? []), w]);
+				if (w.bayId !== null && w.state !== 'done') lanes.set(w.bayId, [...(lanes.get(w.bayId) ?? []), w]);
 			}
-			const waiting = jobs
-				.filter((j: JobView) => (wheelsByJob.get(j.id) ?? []).some((w) => w.bayId === null && w.state === 'queued'))
-				.map((j) => ({ ...j, wheels: wheelsByJob.get(j.id) ?? [] }));
+			const waitingWheels = new Map<number, number[]>();
+			for (const w of wheels) {
+				if (w.bayId === null && w.state === 'queued')
+					waitingWheels.set(w.jobId, [...(waitingWheels.get(w.jobId) ?? []), w.id]);
+			}
 			return {
 				store: {
 					id: store.id,
@@ -55,9 +53,14 @@ export async function snapshot(storeId: number): Promise<BoardSnapshot> {
 				},
 				bays: bays.map((b) => ({
 					...b,
-					wheels: (wheelsByBay.get(b.id) ?? []).sort((x, y) => (x.queuePosition ?? 0) - (y.queuePosition ?? 0))
+					wheelIds: (lanes.get(b.id) ?? [])
+						.sort((x, y) => (x.queuePosition ?? 0) - (y.queuePosition ?? 0))
+						.map((w) => w.id)
 				})),
-				waiting,
+				// jobViews is ordered by promised time, so the waiting line is too.
+				waiting: jobs
+					.filter((j) => waitingWheels.has(j.id))
+					.map((j) => ({ jobId: j.id, wheelIds: waitingWheels.get(j.id)! })),
 				jobs,
 				wheels,
 				counters: {
