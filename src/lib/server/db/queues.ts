@@ -7,10 +7,9 @@
 import type { Knex } from 'knex';
 import type { MoveWheels } from '$lib/schemas/floor';
 import { NotAllowedNow, NotFound, VersionConflict } from '../errors';
-import * as events from '../live/events';
 import type { Actor } from './actor';
-import { inTransaction, Retry } from './transaction';
-import { toWheelView, wheelViews } from './views';
+import { db } from './index';
+import { wheelViews } from './views';
 
 export interface BayRow {
 	id: number;
@@ -98,128 +97,34 @@ export interface MoveResult {
 	eventId: number;
 }
 
-interface LockedWheel {
-	id: number;
-	version: number;
-	state: string;
-	bay_id: number | null;
-	position: string;
-	job_id: number;
-	number: number;
-	job_state: string;
-	store_id: number;
-}
-
 /**
  * Moves wheels into a bay at a place in its queue (default: the end), or back to the waiting line (`bayId: null`).
  * All or none: one stale version or one wheel that is not queued and nothing moves.
  *
- * This is the floor's hottest write, so it is written as few round trips: lock the bays (finding them from the
- * wheels in the same statement), lock jobs and wheels together, read the lanes of every bay involved at once, write
- * every new place in one UPDATE that returns the rows for the event, then the audit row and the event in one call.
+ * The floor's hottest write runs as one database function (migrations/…_move-wheels-function.ts) in one round trip:
+ * it locks bays, then jobs and wheels, checks versions and states, renumbers every bay involved, and writes the
+ * audit row and the event. Its refusals come back as our own SQLSTATEs.
  */
-export async function move(actor: Actor, input: MoveWheels): Promise<MoveResult> {
-	return inTransaction(async (trx) => {
-		const ids = input.wheels.map((w) => w.id);
-		const { rows: bayRows } = await trx.raw(
-			`SELECT id, code, active, tech_id, store_id FROM bays
-			  WHERE id IN (SELECT bay_id FROM wheels WHERE id = ANY(?) AND bay_id IS NOT NULL) OR id = ?
-			  ORDER BY id FOR UPDATE`,
-			[ids, input.bayId ?? 0]
-		);
-		const bays = new Map<number, BayRow & { store_id: number }>(
-			bayRows.map((b: BayRow & { store_id: number }) => [b.id, b])
-		);
-		if (input.bayId !== null && bays.get(input.bayId)?.store_id !== actor.storeId)
-			throw new NotFound('No such bay in your store.');
-		// Jobs before wheels (the lock order), in one statement: rows come, and are locked, in job then wheel order.
-		const { rows }: { rows: LockedWheel[] } = await trx.raw(
-			`SELECT w.id, w.version, w.state, w.bay_id, w.position, w.job_id, j.number, j.state AS job_state, j.store_id
-			   FROM jobs j JOIN wheels w ON w.job_id = j.id
-			  WHERE w.id = ANY(?) ORDER BY j.id, w.id FOR UPDATE OF j, w`,
-			[ids]
-		);
-		if (rows.length !== ids.length || rows.some((w) => w.store_id !== actor.storeId)) {
-			throw new NotFound('No such wheel in your store.');
-		}
-		const byId = new Map(rows.map((r) => [r.id, r]));
-		if (input.wheels.some((w) => byId.get(w.id)!.version !== w.version)) {
-			throw new VersionConflict({ wheels: await wheelViews(trx, ids) });
-		}
-		for (const r of rows) {
-			if (r.job_state === 'cancelled' || r.job_state === 'collected') {
-				throw new NotAllowedNow(`Job ${r.number} is ${r.job_state}: its wheels stay where they are.`);
-			}
-			if (r.state !== 'queued') {
-				throw new NotAllowedNow(
-					`Wheel ${r.position} of job ${r.number} is ${r.state === 'working' ? 'being worked on' : 'done'}: only queued wheels move.`
-				);
-			}
-			// Moved into another bay between the two statements: its bay is not locked. Start over.
-			if (r.bay_id !== null && !bays.has(r.bay_id)) throw new Retry();
-		}
-		const dest = input.bayId === null ? null : bays.get(input.bayId)!;
-		if (dest && !dest.active) throw new NotAllowedNow(`Bay ${dest.code} is out of service.`);
-
-		const involved = [...bays.keys()];
-		const { rows: laneRows }: { rows: (LaneWheel & { bay_id: number })[] } = await trx.raw(
-			`SELECT id, bay_id, state, queue_position FROM wheels WHERE bay_id = ANY(?) AND state <> 'done'
-			  ORDER BY bay_id, (state = 'working') DESC, queue_position NULLS LAST, id`,
-			[involved]
-		);
-		const moving = new Set(ids);
-		// id → [bay, place, bump]; only rows whose bay or place changes, plus every moving wheel.
-		const writes = new Map<number, [number | null, number | null, number]>();
-		for (const bayId of involved) {
-			const rest = laneRows.filter((w) => w.bay_id === bayId && !moving.has(w.id));
-			let ordered: { id: number; queue_position: number | null }[] = rest;
-			if (bayId === dest?.id) {
-				const working = rest.filter((w) => w.state === 'working').length;
-				const at = Math.min(Math.max((input.queuePosition ?? rest.length + 1) - 1, working), rest.length);
-				const incoming = ids.map((id) => ({ id, queue_position: null }));
-				ordered = [...rest.slice(0, at), ...incoming, ...rest.slice(at)];
-			}
-			ordered.forEach((w, i) => {
-				if (moving.has(w.id)) writes.set(w.id, [bayId, i + 1, 1]);
-				else if (w.queue_position !== i + 1) writes.set(w.id, [bayId, i + 1, 0]);
-			});
-		}
-		for (const id of ids) if (!writes.has(id)) writes.set(id, [null, null, 1]); // to the waiting line
-		const entries = [...writes.entries()];
-		const { rows: updated } = await trx.raw(
-			`UPDATE wheels w SET bay_id = v.bay, queue_position = v.place, version = w.version + v.bump,
-			        updated_at = CASE WHEN v.bump = 1 THEN now() ELSE w.updated_at END
-			   FROM unnest(?::int[], ?::int[], ?::int[], ?::int[]) AS v(id, bay, place, bump)
-			  WHERE w.id = v.id
-			 RETURNING w.id, w.job_id, w.position, w.bay_id, w.queue_position, w.state, w.tech_id, w.started_at, w.finished_at, w.version`,
-			[
-				entries.map((e) => e[0]),
-				entries.map((e) => e[1][0]),
-				entries.map((e) => e[1][1]),
-				entries.map((e) => e[1][2])
-			] as unknown as Knex.RawBinding[]
-		);
-		const views = (updated as Record<string, never>[])
-			.map(toWheelView)
-			.sort((x, y) => x.jobId - y.jobId || order(x.position) - order(y.position));
-		const eventId = await events.append(
-			trx,
-			{
-				storeId: actor.storeId,
-				type: ids.length === 1 ? 'wheel.moved' : 'wheels.moved',
-				entity: 'wheel',
-				entityId: ids[0],
-				wheels: views
-			},
-			{
-				userId: actor.userId,
-				action: 'move',
-				detail: { wheels: ids, to: dest?.code ?? 'waiting', at: input.queuePosition ?? null }
-			}
-		);
-		return { wheels: views, eventId };
-	});
+export async function move(actor: Actor, input: MoveWheels, attempt = 1): Promise<MoveResult> {
+	const ids = input.wheels.map((w) => w.id);
+	try {
+		const { rows } = await db().raw('SELECT lugline_move_wheels(?, ?, ?::int[], ?::int[], ?, ?) AS result', [
+			actor.storeId,
+			actor.userId,
+			ids,
+			input.wheels.map((w) => w.version),
+			input.bayId,
+			input.queuePosition ?? null
+		] as unknown as Knex.RawBinding[]);
+		const result = rows[0].result as MoveResult;
+		return { wheels: result.wheels, eventId: Number(result.eventId) };
+	} catch (error) {
+		const { code, message } = error as { code?: string; message?: string };
+		if (code === 'LG404') throw new NotFound(message);
+		if (code === 'LG422') throw new NotAllowedNow(message ?? 'Not allowed now.');
+		if (code === 'LG409') throw new VersionConflict({ wheels: await wheelViews(db(), ids) });
+		// A deadlock or serialisation failure means nothing was written: one more try.
+		if ((code === '40P01' || code === '40001') && attempt < 4) return move(actor, input, attempt + 1);
+		throw error;
+	}
 }
-
-const positions = ['LF', 'RF', 'LR', 'RR', 'SP'];
-const order = (position: string) => positions.indexOf(position);
