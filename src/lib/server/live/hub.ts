@@ -6,6 +6,8 @@ export interface Delivered {
 	storeId: number;
 	/** The event as the stream sends it: `{ id, type, at, jobs, wheels, bays }`. */
 	json: string;
+	/** The same, as one encoded server-sent event frame, shared by every screen. */
+	frame: Uint8Array;
 }
 
 type Subscriber = (event: Delivered) => void;

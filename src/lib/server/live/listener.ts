@@ -8,6 +8,7 @@ import { db } from '../db';
 import { pruneEvents } from '../db/board';
 import { CHANNEL } from './events';
 import { publish } from './hub';
+import { frame } from './stream';
 import type { Delivered } from './hub';
 
 const BATCH = 500;
@@ -152,7 +153,8 @@ export function toDelivered(row: {
 }): Delivered {
 	const id = Number(row.id);
 	const body = { id, type: row.type, at: new Date(row.created_at).toISOString(), ...(row.payload as object) };
-	return { id, storeId: row.store_id, json: JSON.stringify(body) };
+	const json = JSON.stringify(body);
+	return { id, storeId: row.store_id, json, frame: frame('floor', json) };
 }
 
 export async function stop(): Promise<void> {
