@@ -1,4 +1,4 @@
-// A move of wheels between bays as one server-side function: the floor's hottest write in one round trip (system
+// JSON helpers, and a move of wheels between bays as one server-side function: the floor's hottest write in one round trip (system
 // calls are costly on small virtual machines, and a move used to take nine). The same rules as before, in SQL:
 //   lock order bays → jobs → wheels → events lock; all or none; queued and working wheels keep places 1..n, working
 //   first; renumbered neighbours keep their version; the event and the audit row are written in the same call.
@@ -7,13 +7,17 @@
 import type { Knex } from 'knex';
 
 export async function up(knex: Knex): Promise<void> {
+	// Instants in JSON the way JavaScript writes them (toISOString), so rows read either way compare equal.
+	await knex.raw(`
+		CREATE FUNCTION lugline_iso(t timestamptz) RETURNS text LANGUAGE sql IMMUTABLE AS $$
+			SELECT to_char(t AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"')
+		$$`);
 	await knex.raw(`
 		CREATE FUNCTION lugline_wheel_json(w wheels) RETURNS jsonb LANGUAGE sql IMMUTABLE AS $$
 			SELECT jsonb_build_object(
 				'id', w.id, 'jobId', w.job_id, 'position', w.position, 'bayId', w.bay_id, 'queuePosition', w.queue_position,
 				'state', w.state, 'techId', w.tech_id,
-				'startedAt', to_char(w.started_at AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"'),
-				'finishedAt', to_char(w.finished_at AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"'),
+				'startedAt', lugline_iso(w.started_at), 'finishedAt', lugline_iso(w.finished_at),
 				'version', w.version)
 		$$`);
 	await knex.raw(`
@@ -110,4 +114,5 @@ export async function up(knex: Knex): Promise<void> {
 export async function down(knex: Knex): Promise<void> {
 	await knex.raw('DROP FUNCTION IF EXISTS lugline_move_wheels(integer, integer, integer[], integer[], integer, integer)');
 	await knex.raw('DROP FUNCTION IF EXISTS lugline_wheel_json(wheels)');
+	await knex.raw('DROP FUNCTION IF EXISTS lugline_iso(timestamptz)');
 }

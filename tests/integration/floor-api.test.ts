@@ -201,4 +201,74 @@ describe('conflicts and refusals', () => {
 		expect((await as.writer.call('POST', '/api/jobs', newJob({ customerId: 1 }))).status).toBe(400);
 		expect((await as.writer.call('POST', '/api/jobs', newJob({ services: ['no-such-service'] }))).status).toBe(422);
 	});
+
+	it('the board snapshot holds every floor job and wheel once, lanes in queue order, the waiting line by promise', async () => {
+		const later = await job({ promisedAt: new Date(Date.now() + 7_200_000).toISOString(), wheels: ['LF'] });
+		const sooner = await job({ promisedAt: new Date(Date.now() + 1_800_000).toISOString(), wheels: ['RF', 'LR'] });
+		const r = await as.tech.call('GET', '/api/board');
+		expect(r.status).toBe(200);
+		const snap = r.body;
+		expect(snap.store.id).toBe(store.id);
+		const floorJobs = await withClient(async (c) =>
+			(
+				await c.query(
+					`SELECT id FROM jobs WHERE store_id = $1 AND state IN ('waiting', 'in_progress', 'done') ORDER BY promised_at, id`,
+					[store.id]
+				)
+			).rows.map((x) => x.id)
+		);
+		expect(snap.jobs.map((j: { id: number }) => j.id)).toEqual(floorJobs);
+		const wheelRows = await withClient(
+			async (c) =>
+				(
+					await c.query(
+						`SELECT w.id, w.bay_id, w.queue_position, w.state, w.version, w.started_at FROM wheels w WHERE w.job_id = ANY($1)`,
+						[floorJobs]
+					)
+				).rows
+		);
+		expect(snap.wheels).toHaveLength(wheelRows.length);
+		for (const row of wheelRows) {
+			const w = snap.wheels.find((x: { id: number }) => x.id === row.id);
+			expect(w).toMatchObject({
+				bayId: row.bay_id,
+				queuePosition: row.queue_position,
+				state: row.state,
+				version: row.version
+			});
+			expect(w.startedAt).toBe(row.started_at ? new Date(row.started_at).toISOString() : null);
+		}
+		for (const bay of snap.bays) {
+			const lane = wheelRows
+				.filter((x) => x.bay_id === bay.id && x.state !== 'done')
+				.sort((a, b) => a.queue_position - b.queue_position)
+				.map((x) => x.id);
+			expect(bay.wheelIds, `bay ${bay.code}`).toEqual(lane);
+		}
+		const waitingIds = snap.waiting.map((x: { jobId: number }) => x.jobId);
+		expect(waitingIds.indexOf(sooner.id)).toBeLessThan(waitingIds.indexOf(later.id));
+		expect(snap.waiting.find((x: { jobId: number }) => x.jobId === sooner.id).wheelIds).toEqual(
+			sooner.wheels.map((w: { id: number }) => w.id)
+		);
+		const sample = snap.jobs.find((j: { id: number }) => j.id === sooner.id);
+		expect(sample).toMatchObject({
+			number: sooner.number,
+			kind: 'waiter',
+			services: ['mount-balance'],
+			customer: { name: 'Invented Test Customer' }
+		});
+		expect(typeof snap.cursor).toBe('number');
+		const done = await withClient(
+			async (c) =>
+				(
+					await c.query(
+						`SELECT count(*)::int AS n FROM wheels w JOIN jobs j ON j.id = w.job_id WHERE j.store_id = $1 AND w.state = 'done'
+			                  AND w.finished_at::date = (now() AT TIME ZONE 'UTC')::date`,
+						[store.id]
+					)
+				).rows[0].n
+		);
+		expect(done).toBeGreaterThan(0); // the technician test above finished a wheel that stays done
+		expect(snap.counters.wheelsDone).toBe(done);
+	});
 });
