@@ -9,11 +9,11 @@ import type { Knex } from 'knex';
 export async function up(knex: Knex): Promise<void> {
 	// Instants in JSON the way JavaScript writes them (toISOString), so rows read either way compare equal.
 	await knex.raw(`
-		CREATE FUNCTION lugline_iso(t timestamptz) RETURNS text LANGUAGE sql IMMUTABLE AS $$
+		CREATE FUNCTION lugline_iso(t timestamptz) RETURNS text LANGUAGE sql STABLE AS $$
 			SELECT to_char(t AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"')
 		$$`);
 	await knex.raw(`
-		CREATE FUNCTION lugline_wheel_json(w wheels) RETURNS jsonb LANGUAGE sql IMMUTABLE AS $$
+		CREATE FUNCTION lugline_wheel_json(w wheels) RETURNS jsonb LANGUAGE sql STABLE AS $$
 			SELECT jsonb_build_object(
 				'id', w.id, 'jobId', w.job_id, 'position', w.position, 'bayId', w.bay_id, 'queuePosition', w.queue_position,
 				'state', w.state, 'techId', w.tech_id,

@@ -1,81 +1,83 @@
 // The store's floor in one consistent snapshot, with the cursor (newest event id) it includes. Read in one
 // REPEATABLE READ transaction: since events commit in id order (see live/events.ts), every event up to the cursor
 // is in the snapshot and none after it.
-import type { BoardSnapshot } from '$lib/schemas/floor';
+import type { BoardSnapshot, WheelView } from '$lib/schemas/floor';
 import { NotFound } from '../errors';
 import { db } from './index';
+import { bayViews, jobViews, wheelViewsOfJobs } from './views';
 
-/**
- * The snapshot as JSON text, built entirely in PostgreSQL: with a thousand wheels on the floor, turning rows into
- * objects and back into JSON in the app cost more than the queries themselves. Same shape as BoardSnapshot.
- */
-export async function snapshotJson(storeId: number): Promise<string> {
+export async function snapshot(storeId: number): Promise<BoardSnapshot> {
 	return db().transaction(
 		async (trx) => {
-			const { rows } = await trx.raw(
-				`WITH s AS (
-				   SELECT id, name, timezone, target_min_per_wheel, events_pruned_to, (now() AT TIME ZONE timezone)::date AS today
-				     FROM stores WHERE id = :store
-				 ), floor_jobs AS (
-				   SELECT id, promised_at FROM jobs
-				    WHERE store_id = :store
-				      AND (state IN ('waiting', 'in_progress') OR (state = 'done' AND done_at > now() - interval '1 day'))
-				 ), job_docs AS (
-				   SELECT j.id, j.promised_at, json_build_object(
-				     'id', j.id, 'number', j.number, 'state', j.state, 'kind', j.kind, 'promisedAt', lugline_iso(j.promised_at),
-				     'priority', j.priority, 'notesPreview', left(j.notes, 280), 'version', j.version,
-				     'createdAt', lugline_iso(j.created_at), 'startedAt', lugline_iso(j.started_at), 'doneAt', lugline_iso(j.done_at),
-				     'customer', json_build_object('id', c.id, 'name', c.name, 'phone', c.phone),
-				     'vehicle', CASE WHEN v.id IS NULL THEN NULL ELSE json_build_object('id', v.id,
-				       'label', concat_ws(' ', v.year_from || '–' || v.year_to, v.make, v.model, nullif(v.trim, ''))) END,
-				     'plate', coalesce(cv.plate, ''),
-				     'services', coalesce((SELECT json_agg(sv.code ORDER BY sv.position, sv.code) FROM job_services js
-				                            JOIN services sv ON sv.id = js.service_id WHERE js.job_id = j.id), '[]')) AS doc
-				     FROM jobs j JOIN floor_jobs f ON f.id = j.id
-				     JOIN customers c ON c.id = j.customer_id
-				     LEFT JOIN vehicles v ON v.id = j.vehicle_id
-				     LEFT JOIN customer_vehicles cv ON cv.id = j.customer_vehicle_id
-				 ), today_wheels AS (
-				   SELECT w.state, w.started_at, w.finished_at, j.state AS job_state, j.promised_at
-				     FROM wheels w JOIN jobs j ON j.id = w.job_id, s
-				    WHERE j.store_id = :store
-				      AND ((w.finished_at AT TIME ZONE s.timezone)::date = s.today OR (j.promised_at AT TIME ZONE s.timezone)::date = s.today)
-				 )
-				 SELECT json_build_object(
-				   'store', (SELECT json_build_object('id', id, 'name', name, 'timezone', timezone, 'targetMinPerWheel', target_min_per_wheel) FROM s),
-				   'bays', (SELECT coalesce(json_agg(json_build_object('id', b.id, 'code', b.code, 'name', b.name, 'position', b.position,
-				              'active', b.active, 'techId', b.tech_id, 'techName', u.name,
-				              'wheelIds', coalesce((SELECT json_agg(w.id ORDER BY w.queue_position) FROM wheels w
-				                                     WHERE w.bay_id = b.id AND w.state <> 'done'), '[]')) ORDER BY b.position), '[]')
-				              FROM bays b LEFT JOIN users u ON u.id = b.tech_id WHERE b.store_id = :store),
-				   'waiting', (SELECT coalesce(json_agg(json_build_object('jobId', x.id, 'wheelIds', x.wheel_ids) ORDER BY x.promised_at, x.id), '[]')
-				                 FROM (SELECT f.id, f.promised_at, json_agg(w.id ORDER BY array_position(ARRAY['LF','RF','LR','RR','SP'], w.position)) AS wheel_ids
-				                         FROM floor_jobs f JOIN wheels w ON w.job_id = f.id
-				                        WHERE w.bay_id IS NULL AND w.state = 'queued' GROUP BY f.id, f.promised_at) x),
-				   'jobs', (SELECT coalesce(json_agg(doc ORDER BY promised_at, id), '[]') FROM job_docs),
-				   'wheels', (SELECT coalesce(json_agg(lugline_wheel_json(w) ORDER BY w.job_id, array_position(ARRAY['LF','RF','LR','RR','SP'], w.position)), '[]')
-				                FROM wheels w WHERE w.job_id IN (SELECT id FROM floor_jobs)),
-				   'counters', (SELECT json_build_object(
-				       'wheelsDone', count(*) FILTER (WHERE state = 'done' AND (finished_at AT TIME ZONE (SELECT timezone FROM s))::date = (SELECT today FROM s)),
-				       'wheelsPlanned', count(*) FILTER (WHERE job_state <> 'cancelled' AND (promised_at AT TIME ZONE (SELECT timezone FROM s))::date = (SELECT today FROM s)),
-				       'minPerWheel', round((avg(EXTRACT(EPOCH FROM (finished_at - started_at)) / 60)
-				                       FILTER (WHERE state = 'done' AND (finished_at AT TIME ZONE (SELECT timezone FROM s))::date = (SELECT today FROM s)))::numeric, 1))
-				     FROM today_wheels),
+			const store = await trx('stores')
+				.select('id', 'name', 'timezone', 'target_min_per_wheel')
+				.where({ id: storeId })
+				.first();
+			if (!store) throw new NotFound('Your store no longer exists.');
+			const bays = await bayViews(trx, storeId);
+			const jobs = await jobViews(trx, { floorOf: storeId });
+			const wheels = await wheelViewsOfJobs(
+				trx,
+				jobs.map((j) => j.id)
+			);
+			const counters = await trx.raw(
+				`WITH today AS (SELECT (now() AT TIME ZONE s.timezone)::date AS d, s.timezone AS tz FROM stores s WHERE s.id = ?)
+				 SELECT
+				   (SELECT count(*) FROM wheels w JOIN jobs j ON j.id = w.job_id, today
+				     WHERE j.store_id = ? AND w.state = 'done' AND (w.finished_at AT TIME ZONE today.tz)::date = today.d)::int AS done,
+				   (SELECT count(*) FROM wheels w JOIN jobs j ON j.id = w.job_id, today
+				     WHERE j.store_id = ? AND j.state <> 'cancelled' AND (j.promised_at AT TIME ZONE today.tz)::date = today.d)::int AS planned,
+				   (SELECT avg(EXTRACT(EPOCH FROM (w.finished_at - w.started_at)) / 60) FROM wheels w JOIN jobs j ON j.id = w.job_id, today
+				     WHERE j.store_id = ? AND w.state = 'done' AND (w.finished_at AT TIME ZONE today.tz)::date = today.d) AS min_per_wheel,
 				   -- Any id up to the newest is a valid resume point: events commit in id order, and replay filters by store.
 				   -- Never below the pruned mark, or a store quiet for longer than the kept window could never resume.
-				   'cursor', greatest((SELECT coalesce(max(id), 0) FROM events), (SELECT events_pruned_to FROM s))
-				 )::text AS doc, (SELECT count(*) FROM s) AS found`,
-				{ store: storeId }
+				   greatest((SELECT coalesce(max(id), 0) FROM events), (SELECT events_pruned_to FROM stores WHERE id = ?)) AS cursor`,
+				[storeId, storeId, storeId, storeId, storeId]
 			);
-			if (!Number(rows[0].found)) throw new NotFound('Your store no longer exists.');
-			return rows[0].doc as string;
+			const c = counters.rows[0];
+			const lanes = new Map<number, WheelView[]>();
+			for (const w of wheels) {
+				if (w.bayId !== null && w.state !== 'done') lanes.set(w.bayId, [...(lanes.get(w.bayId) ?? []), w]);
+			}
+			const waitingWheels = new Map<number, number[]>();
+			for (const w of wheels) {
+				if (w.bayId === null && w.state === 'queued')
+					waitingWheels.set(w.jobId, [...(waitingWheels.get(w.jobId) ?? []), w.id]);
+			}
+			return {
+				store: {
+					id: store.id,
+					name: store.name,
+					timezone: store.timezone,
+					targetMinPerWheel: store.target_min_per_wheel
+				},
+				bays: bays.map((b) => ({
+					...b,
+					wheelIds: (lanes.get(b.id) ?? [])
+						.sort((x, y) => (x.queuePosition ?? 0) - (y.queuePosition ?? 0))
+						.map((w) => w.id)
+				})),
+				// jobViews is ordered by promised time, so the waiting line is too.
+				waiting: jobs
+					.filter((j) => waitingWheels.has(j.id))
+					.map((j) => ({ jobId: j.id, wheelIds: waitingWheels.get(j.id)! })),
+				jobs,
+				wheels,
+				counters: {
+					wheelsDone: c.done,
+					wheelsPlanned: c.planned,
+					minPerWheel: c.min_per_wheel === null ? null : Math.round(Number(c.min_per_wheel) * 10) / 10
+				},
+				cursor: Number(c.cursor)
+			};
 		},
 		{ isolationLevel: 'repeatable read', readOnly: true }
 	);
 }
 
-export async function snapshot(storeId: number): Promise<BoardSnapshot> {
-	return JSON.parse(await snapshotJson(storeId)) as BoardSnapshot;
+/** The snapshot as JSON text, as the API sends it. */
+export async function snapshotJson(storeId: number): Promise<string> {
+	return JSON.stringify(await snapshot(storeId));
 }
 
 /** The store's events after a cursor, in id order, a page at a time (the stream's replay). */

@@ -24,7 +24,16 @@ export function subscribe(storeId: number, subscriber: Subscriber): () => void {
 	};
 }
 
+const anyListeners = new Set<(storeId: number) => void>();
+
+/** Told of every event of every store (the board cache drops its copy). */
+export function onAnyEvent(listener: (storeId: number) => void): () => void {
+	anyListeners.add(listener);
+	return () => anyListeners.delete(listener);
+}
+
 export function publish(event: Delivered): void {
+	for (const listener of anyListeners) listener(event.storeId);
 	for (const subscriber of byStore.get(event.storeId) ?? []) {
 		try {
 			subscriber(event);
