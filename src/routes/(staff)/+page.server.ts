@@ -1,11 +1,9 @@
 import type { PageServerLoad } from './$types';
-import * as stores from '$lib/server/db/stores';
+import * as board from '$lib/server/db/board';
 import { orUnavailable, staffOf } from '$lib/server/guard';
 
+// The console starts from a snapshot rendered with the page; the live stream takes over from its cursor.
 export const load: PageServerLoad = async ({ locals }) => {
 	const staff = staffOf(locals);
-	const [counts, bays] = await orUnavailable(() =>
-		Promise.all([stores.floorCounts(staff.storeId), stores.bays(staff.storeId)])
-	);
-	return { counts, bays };
+	return { board: await orUnavailable(() => board.snapshot(staff.storeId)), role: staff.role };
 };
