@@ -9,7 +9,10 @@ function cluster(command: 'start' | 'stop') {
 	if (result.status !== 0) throw new Error(`db ${command} failed: ${result.stdout}${result.stderr}`);
 }
 
-test('health answers 503 quickly while the database is stopped and 200 after it restarts', async ({ page, request }) => {
+test('health answers 503 quickly while the database is stopped and 200 after it restarts', async ({
+	page,
+	request
+}) => {
 	test.setTimeout(90_000);
 	const manager = account('manager');
 	await page.goto('/signin');

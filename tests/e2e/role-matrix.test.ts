@@ -10,7 +10,8 @@ import { account } from '../support/accounts';
 const examples: Record<string, string> = {
 	// Demo job 1 and wheel 1 exist in the seeded store of every role in this matrix.
 	'/api/jobs/[id=id]': '/api/jobs/1',
-	'/api/wheels/[id=id]': '/api/wheels/1'
+	'/api/wheels/[id=id]': '/api/wheels/1',
+	'/api/vehicles/[id=id]': '/api/vehicles/1'
 };
 
 function urlFor(routeId: string): string {
@@ -42,7 +43,11 @@ for (const who of [...roles, 'nobody'] as const) {
 			const url = urlFor(routeId);
 			if (rule.kind === 'api') {
 				for (const [method, access] of Object.entries(rule.methods)) {
-					const response = await context.fetch(url, { method, maxRedirects: 0, data: method === 'GET' ? undefined : {} });
+					const response = await context.fetch(url, {
+						method,
+						maxRedirects: 0,
+						data: method === 'GET' ? undefined : {}
+					});
 					const status = response.status();
 					const label = `${who} ${method} ${url} → ${status}`;
 					if (expectation(access, who)) expect([401, 403], label).not.toContain(status);
@@ -81,7 +86,10 @@ for (const who of [...roles, 'nobody'] as const) {
 }
 
 test('a form action posted from a foreign origin is refused', async () => {
-	const context = await request.newContext({ baseURL, extraHTTPHeaders: { origin: 'http://evil.example', accept: 'text/html' } });
+	const context = await request.newContext({
+		baseURL,
+		extraHTTPHeaders: { origin: 'http://evil.example', accept: 'text/html' }
+	});
 	const { email, password } = account('manager');
 	const response = await context.post('/signin', { form: { email, password }, maxRedirects: 0 });
 	expect(response.status()).toBe(403);

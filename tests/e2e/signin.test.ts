@@ -52,7 +52,9 @@ test('repeated failures for one account are slowed, and the counter lives in the
 	for (let i = 0; i < 6; i++) await signIn(page, email, `wrong-${i}`);
 	await signIn(page, email, 'wrong-again');
 	await expect(page.getByRole('alert')).toContainText('Too many failed sign-ins');
-	const row = await withClient((c) => c.query('SELECT failures, locked_until > now() AS locked FROM signin_failures WHERE account_key = $1', [email]));
+	const row = await withClient((c) =>
+		c.query('SELECT failures, locked_until > now() AS locked FROM signin_failures WHERE account_key = $1', [email])
+	);
 	expect(row.rows[0]).toMatchObject({ failures: 6, locked: true });
 	await withClient((c) => c.query('DELETE FROM signin_failures WHERE account_key = $1', [email]));
 });
@@ -71,7 +73,9 @@ test('a disabled user is refused on the next request', async ({ page }) => {
 	try {
 		await signIn(page, email, password);
 		await expect(page.getByTestId('role')).toHaveText(roleLabels.writer);
-		await withClient((c) => c.query('UPDATE users SET active = false, session_version = session_version + 1 WHERE id = $1', [id]));
+		await withClient((c) =>
+			c.query('UPDATE users SET active = false, session_version = session_version + 1 WHERE id = $1', [id])
+		);
 		await page.reload();
 		await expect(page).toHaveURL(/\/signin/);
 		const me = await page.request.get('/api/me');

@@ -13,6 +13,7 @@ export interface ConsoleContext {
 	selected(): JobView | undefined;
 	select(jobId: number | null): void;
 	toggleHelp(): void;
+	openPalette(): void;
 	say(message: string): void;
 }
 
@@ -146,6 +147,14 @@ export const commands: Command[] = [
 		}
 	},
 	{
+		id: 'open-palette',
+		title: 'Search jobs, customers, vehicles and commands',
+		keywords: ['search', 'find', 'palette', 'go'],
+		keys: ['/', 'ctrl+k'],
+		roles: everyone,
+		run: (ctx) => ctx.openPalette()
+	},
+	{
 		id: 'help',
 		title: 'Show or hide the list of keys',
 		keywords: ['help', 'keys', 'shortcuts'],
@@ -161,6 +170,6 @@ export function commandsFor(role: Role): Command[] {
 
 /** How a key name reads on screen. */
 export function keyLabel(key: string): string {
-	const names: Record<string, string> = { down: '↓', up: '↑', esc: 'Esc', 'shift+/': '?' };
+	const names: Record<string, string> = { down: '↓', up: '↑', esc: 'Esc', 'shift+/': '?', 'ctrl+k': 'Ctrl+K' };
 	return names[key] ?? key.toUpperCase();
 }

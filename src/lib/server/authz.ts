@@ -35,6 +35,8 @@ export const authorisation: Record<string, Rule> = {
 	'/api/me': { kind: 'api', methods: { GET: 'staff' } },
 	'/api/board': { kind: 'api', methods: { GET: 'staff' } },
 	'/api/customers': { kind: 'api', methods: { GET: 'staff' } },
+	'/api/vehicles': { kind: 'api', methods: { GET: 'staff' } },
+	'/api/vehicles/[id=id]': { kind: 'api', methods: { GET: 'staff' } },
 	'/api/events': { kind: 'api', methods: { POST: 'staff' } },
 	'/api/jobs': { kind: 'api', methods: { POST: counter } },
 	'/api/jobs/[id=id]': { kind: 'api', methods: { GET: 'staff', PATCH: counter } },
