@@ -14,6 +14,7 @@ export interface ConsoleContext {
 	select(jobId: number | null): void;
 	toggleHelp(): void;
 	openPalette(): void;
+	openIntake(): void;
 	say(message: string): void;
 }
 
@@ -145,6 +146,14 @@ export const commands: Command[] = [
 			const working = ctx.board.wheelsOf(ctx.selected()!.id).find((w) => w.state === 'working')!;
 			return report(ctx, ctx.board.patchWheel(working.id, { state: 'done' }));
 		}
+	},
+	{
+		id: 'new-job',
+		title: 'Take in a new job',
+		keywords: ['intake', 'new', 'job', 'customer', 'add'],
+		keys: ['n'],
+		roles: ['writer', 'lead', 'manager'],
+		run: (ctx) => ctx.openIntake()
 	},
 	{
 		id: 'open-palette',

@@ -145,6 +145,15 @@ export class Palette {
 		}, 150);
 	}
 
+	/** Vehicles for intake's vehicle pick, once the index has loaded. */
+	vehicleMatches(query: string, limit: number): { id: string; text: string }[] {
+		if (!this.#vehiclesReady || !vehicleIndex) return [];
+		return search(vehicleIndex, query, limit).map((h) => ({
+			id: h.id.split(':')[1],
+			text: vehicleTexts.get(h.id) ?? h.id
+		}));
+	}
+
 	remember(result: Result): void {
 		this.#recent = [result, ...this.#recent.filter((r) => r.key !== result.key)].slice(0, 8);
 	}

@@ -29,3 +29,18 @@ export async function floorCounts(storeId: number): Promise<Record<string, numbe
 export async function bays(storeId: number): Promise<{ code: string; name: string; active: boolean }[]> {
 	return db()('bays').select('code', 'name', 'active').where({ store_id: storeId }).orderBy('position');
 }
+
+export interface ServiceEntry {
+	code: string;
+	name: string;
+	standardMinutes: number;
+	per: 'wheel' | 'job';
+}
+
+/** The services a writer can put on a job, in the store's order. */
+export async function services(storeId: number): Promise<ServiceEntry[]> {
+	return db()('services')
+		.select({ code: 'code', name: 'name', standardMinutes: 'standard_minutes', per: 'per' })
+		.where({ store_id: storeId, active: true })
+		.orderBy(['position', 'code']);
+}
