@@ -15,6 +15,7 @@ export interface ConsoleContext {
 	toggleHelp(): void;
 	openPalette(): void;
 	openIntake(): void;
+	openCalculators(): void;
 	say(message: string): void;
 }
 
@@ -154,6 +155,14 @@ export const commands: Command[] = [
 		keys: ['n'],
 		roles: ['writer', 'lead', 'manager'],
 		run: (ctx) => ctx.openIntake()
+	},
+	{
+		id: 'calculators',
+		title: 'Open the calculators',
+		keywords: ['calculator', 'pressure', 'weight', 'size', 'bolt', 'load', 'speed', 'dot', 'age', 'pace'],
+		keys: ['c'],
+		roles: ['writer', 'lead', 'tech', 'manager'],
+		run: (ctx) => ctx.openCalculators()
 	},
 	{
 		id: 'open-palette',
