@@ -34,7 +34,7 @@ test('a misspelt, out-of-order vehicle query finds the vehicle and shows its whe
 	const v = (
 		await withClient((c) =>
 			c.query(
-				`SELECT id, make, model, year_from, year_to, trim FROM vehicles WHERE length(model) >= 4 ORDER BY id LIMIT 1`
+				`SELECT id, make, model, year_from, year_to, trim, torque_nm, (SELECT units->>'torque' FROM stores WHERE slug = 'demo') AS torque_unit FROM vehicles WHERE length(model) >= 4 ORDER BY id LIMIT 1`
 			)
 		)
 	).rows[0];
@@ -48,6 +48,13 @@ test('a misspelt, out-of-order vehicle query finds the vehicle and shows its whe
 	await page.locator(`[data-result="vehicle:${v.id}"]`).click();
 	await expect(page.getByTestId('vehicle-facts')).toContainText(`${v.make} ${v.model}`);
 	await expect(page.getByTestId('vehicle-facts')).toContainText('not for service use');
+	// In the store's torque unit, with the stored N·m beside it (1 lbf·ft = 1.3558179483314004 N·m, exact definition).
+	const nm = Number(v.torque_nm);
+	const expected =
+		v.torque_unit === 'lbf.ft'
+			? `${(nm / 1.3558179483314004).toFixed(0)} lbf·ft (${nm.toFixed(0)} N·m)`
+			: `${nm.toFixed(0)} N·m`;
+	await expect(page.getByTestId('torque')).toContainText(expected);
 });
 
 test('a phone fragment finds the customer through the server search', async ({ page }) => {

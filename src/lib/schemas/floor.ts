@@ -172,12 +172,22 @@ export interface FloorEvent {
 	bays: BayView[];
 }
 
+/** The store's display units (stored values are always SI). */
+export interface StoreUnits {
+	pressure: 'kPa' | 'psi' | 'bar';
+	mass: 'g' | 'oz';
+	torque: 'N.m' | 'lbf.ft';
+	length: 'mm' | 'in';
+	tread: 'mm' | 'in32';
+	force: 'N' | 'lbf';
+}
+
 /**
  * The floor in one snapshot. Each job and each wheel is sent once (`jobs`, `wheels`); bays and the waiting line
  * refer to them by id, in order, which keeps the snapshot small on a floor with a thousand wheels.
  */
 export interface BoardSnapshot {
-	store: { id: number; name: string; timezone: string; targetMinPerWheel: number };
+	store: { id: number; name: string; timezone: string; targetMinPerWheel: number; units?: StoreUnits };
 	/** Bays in order, each with its queued and working wheels in queue order. */
 	bays: (BayView & { wheelIds: number[] })[];
 	/** Jobs with a wheel not yet in a bay, by promised time, with those wheels. */

@@ -10,7 +10,7 @@ export async function snapshot(storeId: number): Promise<BoardSnapshot> {
 	return db().transaction(
 		async (trx) => {
 			const store = await trx('stores')
-				.select('id', 'name', 'timezone', 'target_min_per_wheel')
+				.select('id', 'name', 'timezone', 'target_min_per_wheel', 'units')
 				.where({ id: storeId })
 				.first();
 			if (!store) throw new NotFound('Your store no longer exists.');
@@ -49,7 +49,8 @@ export async function snapshot(storeId: number): Promise<BoardSnapshot> {
 					id: store.id,
 					name: store.name,
 					timezone: store.timezone,
-					targetMinPerWheel: store.target_min_per_wheel
+					targetMinPerWheel: store.target_min_per_wheel,
+					units: store.units
 				},
 				bays: bays.map((b) => ({
 					...b,
