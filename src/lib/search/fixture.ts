@@ -5,6 +5,8 @@
  * mix has many sizes only a few vehicles take.
  */
 import type { SearchRecord } from './index';
+// The seeds' generator: the same sequence on every engine, defined once.
+import { mulberry32 as prng } from '../../../seeds/lib/prng';
 
 export interface HurriedQuery {
 	query: string;
@@ -113,18 +115,6 @@ export const hurriedQueries: HurriedQuery[] = [
 	{ query: 'theme', expect: 'cmd-theme', why: 'command word' },
 	{ query: 'pressure calc', expect: 'cmd-pressure', why: 'command fragment' }
 ];
-
-/** mulberry32: small, fast and the same sequence on every engine. */
-export function prng(seed: number): () => number {
-	let a = seed >>> 0;
-	return () => {
-		a = (a + 0x6d2b79f5) >>> 0;
-		let t = a;
-		t = Math.imul(t ^ (t >>> 15), t | 1);
-		t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-		return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-	};
-}
 
 const ONSETS = [
 	'b',

@@ -26,7 +26,9 @@ export const actions: Actions = {
 		const parsed = signInSchema.safeParse(form);
 		const email = typeof form.email === 'string' ? form.email.slice(0, 254) : '';
 		if (!parsed.success) {
-			const errors: Record<string, string> = Object.fromEntries(parsed.error.issues.map((i) => [String(i.path[0]), i.message]));
+			const errors: Record<string, string> = Object.fromEntries(
+				parsed.error.issues.map((i) => [String(i.path[0]), i.message])
+			);
 			return fail(400, { email, errors, message: 'Check the highlighted fields.' });
 		}
 		const result = await signInWithPassword(event, parsed.data.email, parsed.data.password);

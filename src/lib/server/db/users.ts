@@ -41,13 +41,6 @@ export async function listForStore(storeId: number): Promise<SessionUser[]> {
 	return db()('users').select(sessionColumns).where({ store_id: storeId }).orderBy(['role', 'name']);
 }
 
-/** Disables or re-enables an account; bumping the session version ends its sessions on their next request. */
-export async function setActive(id: number, active: boolean): Promise<void> {
-	await db()('users')
-		.where({ id })
-		.update({ active, session_version: db().raw('session_version + 1'), updated_at: db().fn.now() });
-}
-
 export async function readManyForSession(ids: number[]): Promise<SessionUser[]> {
 	if (ids.length === 0) return [];
 	return db()('users').select(sessionColumns).whereIn('id', ids);

@@ -21,32 +21,16 @@ export interface NewEvent {
 	bays?: BayView[];
 }
 
-/** The audit row of the same change, written in the same round trip as the event. */
-export interface AuditEntry {
-	userId: number;
-	action: string;
-	detail?: Record<string, unknown>;
-}
-
-export async function append(trx: Knex.Transaction, event: NewEvent, audit?: AuditEntry): Promise<number> {
+export async function append(trx: Knex.Transaction, event: NewEvent): Promise<number> {
 	const payload = JSON.stringify({ jobs: event.jobs ?? [], wheels: event.wheels ?? [], bays: event.bays ?? [] });
 	// Lock, insert and notify happen in the database function (migrations/…_append-event-function.ts): one round trip.
 	// Only the id travels in the notification (its payload must stay under 8000 bytes); listeners read the row.
-	const call = 'SELECT lugline_append_event(?, ?, ?, ?, ?::jsonb) AS id';
-	const bindings = [event.storeId, event.type, event.entity, event.entityId, payload];
-	const { rows } = audit
-		? await trx.raw(
-				`WITH audit_row AS (INSERT INTO audit (store_id, user_id, action, entity, entity_id, detail) VALUES (?, ?, ?, ?, ?, ?::jsonb)) ${call}`,
-				[
-					event.storeId,
-					audit.userId,
-					audit.action,
-					event.entity,
-					event.entityId,
-					JSON.stringify(audit.detail ?? {}),
-					...bindings
-				]
-			)
-		: await trx.raw(call, bindings);
+	const { rows } = await trx.raw('SELECT lugline_append_event(?, ?, ?, ?, ?::jsonb) AS id', [
+		event.storeId,
+		event.type,
+		event.entity,
+		event.entityId,
+		payload
+	]);
 	return Number(rows[0].id);
 }

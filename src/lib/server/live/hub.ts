@@ -43,9 +43,3 @@ export function publish(event: Delivered): void {
 		}
 	}
 }
-
-export function openStreams(): number {
-	let n = 0;
-	for (const set of byStore.values()) n += set.size;
-	return n;
-}

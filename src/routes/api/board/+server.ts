@@ -1,7 +1,7 @@
 import type { RequestHandler } from './$types';
 import { respond } from '$lib/server/api';
 import * as boardCache from '$lib/server/live/board-cache';
-import { actorOf } from '$lib/server/guard-api';
+import { actorOf } from '$lib/server/guard';
 
 // The whole floor in one snapshot, with the cursor the live stream resumes from (kept per store until its next event).
 export const GET: RequestHandler = ({ locals }) =>

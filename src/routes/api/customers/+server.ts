@@ -3,10 +3,14 @@ import { z } from 'zod';
 import type { RequestHandler } from './$types';
 import { parse, respond } from '$lib/server/api';
 import * as customers from '$lib/server/db/customers';
-import { actorOf } from '$lib/server/guard-api';
+import { actorOf } from '$lib/server/guard';
 
 const querySchema = z.strictObject({
-	q: z.string().trim().min(1, 'Type part of a name, phone number or plate').max(100, 'The search is too long (at most 100 characters)'),
+	q: z
+		.string()
+		.trim()
+		.min(1, 'Type part of a name, phone number or plate')
+		.max(100, 'The search is too long (at most 100 characters)'),
 	limit: z.coerce.number().int().min(1).max(50).default(20)
 });
 

@@ -2,7 +2,7 @@ import { json } from '@sveltejs/kit';
 import type { RequestHandler } from './$types';
 import { idParam, readJson, respond } from '$lib/server/api';
 import * as wheels from '$lib/server/db/wheels';
-import { actorOf } from '$lib/server/guard-api';
+import { actorOf } from '$lib/server/guard';
 import { patchWheelSchema } from '$lib/schemas/floor';
 
 // Move, take back, start, finish, stop or reopen one wheel; the body carries the version the screen showed.
