@@ -3,19 +3,10 @@
 import { createIndex, search, type SearchHit, type SearchRecord } from '$lib/search';
 import type { Command } from '$lib/console/commands';
 import type { JobView } from '$lib/schemas/floor';
+import type { VehicleEntry } from '$lib/schemas/vehicles';
+import type { CustomerHit } from '$lib/schemas/customers';
 
-export interface VehicleEntry {
-	id: number;
-	label: string;
-	sizes: string[];
-}
-
-export interface CustomerHit {
-	id: number;
-	name: string;
-	phone: string;
-	vehicles: { id: number; plate: string; vehicleId: number | null; label: string | null }[];
-}
+export type { CustomerHit, VehicleEntry };
 
 export interface Result {
 	key: string;

@@ -1,14 +1,6 @@
 // Customers of one store: the fuzzy search behind the palette and intake (pg_trgm), by name, phone fragment or plate.
+import type { CustomerHit } from '$lib/schemas/customers';
 import { db } from './index';
-
-export interface CustomerHit {
-	id: number;
-	name: string;
-	phone: string;
-	email: string;
-	vehicles: { id: number; plate: string; vehicleId: number | null; label: string | null }[];
-	score: number;
-}
 
 /**
  * Names match by trigram similarity (typos and word order forgiven); a query with three or more digits also matches

@@ -1,11 +1,6 @@
 // The vehicle wheel-fact data: a compact list for the palette's client index, and one record in full.
+import type { VehicleEntry, VehicleFacts } from '$lib/schemas/vehicles';
 import { db } from './index';
-
-export interface VehicleEntry {
-	id: number;
-	label: string;
-	sizes: string[];
-}
 
 export async function index(): Promise<VehicleEntry[]> {
 	const rows = await db()('vehicles')
@@ -16,28 +11,6 @@ export async function index(): Promise<VehicleEntry[]> {
 		label: [`${v.year_from}–${v.year_to}`, v.make, v.model, v.trim].filter(Boolean).join(' '),
 		sizes: [...new Set([v.tire_front, v.tire_rear])]
 	}));
-}
-
-export interface VehicleFacts {
-	id: number;
-	yearFrom: number;
-	yearTo: number;
-	make: string;
-	model: string;
-	trim: string;
-	studCount: number;
-	boltCircleMm: number;
-	centreBoreMm: number;
-	thread: string;
-	hexMm: number;
-	torqueNm: number;
-	tireFront: string;
-	tireRear: string;
-	placardFrontKpa: number;
-	placardRearKpa: number;
-	tpms: string;
-	notes: string;
-	source: string;
 }
 
 export async function read(id: number): Promise<VehicleFacts | undefined> {
