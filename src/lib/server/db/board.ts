@@ -76,11 +76,6 @@ export async function snapshot(storeId: number): Promise<BoardSnapshot> {
 	);
 }
 
-/** The snapshot as JSON text, as the API sends it. */
-export async function snapshotJson(storeId: number): Promise<string> {
-	return JSON.stringify(await snapshot(storeId));
-}
-
 /** The store's events after a cursor, in id order, a page at a time (the stream's replay). */
 export async function eventsAfter(storeId: number, cursor: number, limit = 1000) {
 	return db()('events')

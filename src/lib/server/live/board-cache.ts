@@ -2,12 +2,13 @@
 // counters). A screen that loads the board gets a snapshot and its cursor; even a snapshot a moment behind is
 // consistent with its own cursor, and the stream replays whatever came after it. The cache is only a copy of what
 // PostgreSQL says: dropping it changes nothing but speed.
+import type { BoardSnapshot } from '$lib/schemas/floor';
 import * as board from '../db/board';
 import { onAnyEvent } from './hub';
 import { ensureStarted, state } from './listener';
 
 const TTL_MS = 30_000;
-const cache = new Map<number, { json: string; builtAt: number }>();
+const cache = new Map<number, { snapshot: BoardSnapshot; json: string; builtAt: number }>();
 const generation = new Map<number, number>();
 let wired = false;
 
@@ -20,16 +21,30 @@ function wire() {
 	});
 }
 
+/** The snapshot for a page load (the console renders it); the same copy the API serves. */
+export async function snapshot(storeId: number): Promise<BoardSnapshot> {
+	return (await entry(storeId)).snapshot;
+}
+
+/** The snapshot as the API sends it. */
 export async function snapshotJson(storeId: number): Promise<string> {
+	return (await entry(storeId)).json;
+}
+
+async function entry(storeId: number): Promise<{ snapshot: BoardSnapshot; json: string }> {
 	wire();
 	await ensureStarted().catch(() => {});
+	const build = async () => {
+		const fresh = await board.snapshot(storeId);
+		return { snapshot: fresh, json: JSON.stringify(fresh) };
+	};
 	// Without a live LISTEN connection nothing would tell us the floor changed: read from the database every time.
-	if (!state().connected) return board.snapshotJson(storeId);
+	if (!state().connected) return build();
 	const hit = cache.get(storeId);
-	if (hit && Date.now() - hit.builtAt < TTL_MS) return hit.json;
+	if (hit && Date.now() - hit.builtAt < TTL_MS) return hit;
 	const before = generation.get(storeId) ?? 0;
-	const json = await board.snapshotJson(storeId);
+	const built = await build();
 	// An event arrived while we read: this snapshot is still consistent with its cursor, but do not keep it.
-	if ((generation.get(storeId) ?? 0) === before) cache.set(storeId, { json, builtAt: Date.now() });
-	return json;
+	if ((generation.get(storeId) ?? 0) === before) cache.set(storeId, { ...built, builtAt: Date.now() });
+	return built;
 }
