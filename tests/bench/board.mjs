@@ -60,8 +60,12 @@ async function level(concurrency) {
 		`method: ${concurrency} request(s) in flight, ${warmup} warm-up requests not counted, then ${s.n} measured in ${wall.toFixed(2)} s` +
 			`${issued < total ? ` (stopped at the ${capSeconds} s cap)` : ''}; nearest-rank percentiles`
 	);
-	console.log(`board: ${wheels} wheels in the bays' queues; response ${(Math.min(...size) / 1024).toFixed(0)} KiB${size.length > 1 ? `–${(Math.max(...size) / 1024).toFixed(0)} KiB` : ''} of JSON, uncompressed${failed ? `; ${failed} failed requests` : ''}`);
-	console.log(`latency: p50 ${ms(s.p50)}, p90 ${ms(s.p90)}, p99 ${ms(s.p99)}, max ${ms(s.max)}; ${(s.n / wall).toFixed(1)} requests/s`);
+	console.log(
+		`board: ${wheels} wheels in the bays' queues; response ${(Math.min(...size) / 1024).toFixed(0)} KiB${size.length > 1 ? `–${(Math.max(...size) / 1024).toFixed(0)} KiB` : ''} of JSON, uncompressed${failed ? `; ${failed} failed requests` : ''}`
+	);
+	console.log(
+		`latency: p50 ${ms(s.p50)}, p90 ${ms(s.p90)}, p99 ${ms(s.p99)}, max ${ms(s.max)}; ${(s.n / wall).toFixed(1)} requests/s`
+	);
 	console.log(`target: p99 ≤ 30 ms ${verdict(s.p99, 30)}`);
 	return failed;
 }

@@ -73,9 +73,13 @@ export async function signIn(url, email, password = benchPassword) {
 		body: new URLSearchParams({ email, password }).toString(),
 		headers: { accept: 'text/html', 'content-type': 'application/x-www-form-urlencoded' }
 	});
-	const cookie = (r.headers['set-cookie'] ?? []).map((c) => c.split(';')[0]).find((c) => c.startsWith('authjs.session-token='));
+	const cookie = (r.headers['set-cookie'] ?? [])
+		.map((c) => c.split(';')[0])
+		.find((c) => c.startsWith('authjs.session-token='));
 	if (r.status !== 303 || !cookie) {
-		throw new Error(`sign-in as ${email} at ${url} failed (${r.status}); is the bench data seeded (node scripts/seed-bench.mjs)?`);
+		throw new Error(
+			`sign-in as ${email} at ${url} failed (${r.status}); is the bench data seeded (node scripts/seed-bench.mjs)?`
+		);
 	}
 	return cookie;
 }
@@ -106,7 +110,13 @@ export function percentile(sorted, p) {
 
 export function summary(values) {
 	const s = Float64Array.from(values).sort();
-	return { n: s.length, p50: percentile(s, 50), p90: percentile(s, 90), p99: percentile(s, 99), max: s.length ? s[s.length - 1] : NaN };
+	return {
+		n: s.length,
+		p50: percentile(s, 50),
+		p90: percentile(s, 90),
+		p99: percentile(s, 99),
+		max: s.length ? s[s.length - 1] : NaN
+	};
 }
 
 export const ms = (v) => (Number.isFinite(v) ? `${v.toFixed(2)} ms` : 'n/a');

@@ -63,7 +63,9 @@ if (board.status !== 200) throw new Error(`GET /api/board answered ${board.statu
 const cursor = board.body.cursor;
 // The snapshot sends each wheel once and the bays refer to them by id, in queue order.
 const wheelById = new Map(board.body.wheels.map((w) => [w.id, w]));
-const active = board.body.bays.filter((b) => b.active).map((b) => ({ ...b, wheels: b.wheelIds.map((id) => wheelById.get(id)) }));
+const active = board.body.bays
+	.filter((b) => b.active)
+	.map((b) => ({ ...b, wheels: b.wheelIds.map((id) => wheelById.get(id)) }));
 // The last two bays: the wheel-moves bench uses the first ones, so a run after it finds its wheels back home.
 const [bayX, bayY] = active.slice(-2);
 const queued = bayX.wheels.filter((w) => w.state === 'queued');
@@ -83,7 +85,12 @@ function openScreen(side, cookie) {
 			{
 				method: 'POST',
 				agent: false,
-				headers: { origin: urls[side], cookie, 'content-type': 'application/json', 'content-length': Buffer.byteLength(body) }
+				headers: {
+					origin: urls[side],
+					cookie,
+					'content-type': 'application/json',
+					'content-length': Buffer.byteLength(body)
+				}
 			},
 			(res) => {
 				screen.status = res.statusCode;
@@ -151,7 +158,8 @@ async function openUpTo(until) {
 			}
 		})
 	);
-	if ((await Promise.race([opening, timeout])) === 'timeout') console.error(`not every stream was ready after ${readyTimeoutMs / 1000} s`);
+	if ((await Promise.race([opening, timeout])) === 'timeout')
+		console.error(`not every stream was ready after ${readyTimeoutMs / 1000} s`);
 }
 const countOpen = (side) => list.filter((x) => x.side === side && x.ready && !x.problem).length;
 
@@ -210,7 +218,9 @@ const writeSeconds = (performance.now() - writeStarted) / 1000;
 const drainUntil = performance.now() + drainMs;
 const lastKey = sent.length ? `${sent.at(-1).wheelId}:${sent.at(-1).version}` : null;
 while (performance.now() < drainUntil) {
-	const lastId = [...rawEvents].find(([, data]) => lastKey && data.includes(`"id":${wheel.id},`) && eventHasWheel(data, lastKey))?.[0];
+	const lastId = [...rawEvents].find(
+		([, data]) => lastKey && data.includes(`"id":${wheel.id},`) && eventHasWheel(data, lastKey)
+	)?.[0];
 	if (lastId !== undefined && live.every((s) => s.arrivals.has(lastId))) break;
 	await sleep(50);
 }
@@ -252,7 +262,9 @@ const answers = summary(sent.map((c) => c.answerMs));
 const failedScreens = list.filter((x) => !x.ready || x.problem);
 const perScreen = (side) => (perSide[side] ? ((rssOpen[side] - rssBefore[side]) / perSide[side]).toFixed(1) : 'n/a');
 const marginal = (side) =>
-	perSide[side] > warmOpen[side] ? ((rssOpen[side] - rssBase[side]) / (perSide[side] - warmOpen[side])).toFixed(1) : 'n/a';
+	perSide[side] > warmOpen[side]
+		? ((rssOpen[side] - rssBase[side]) / (perSide[side] - warmOpen[side])).toFixed(1)
+		: 'n/a';
 
 heading(`live fan-out — writer on ${urlA}; screens on ${urlA} and ${urlB}`);
 console.log(
@@ -262,15 +274,22 @@ console.log(
 );
 if (failedScreens.length) {
 	const why = new Map();
-	for (const f of failedScreens) why.set(f.problem ?? 'not ready in time', (why.get(f.problem ?? 'not ready in time') ?? 0) + 1);
-	console.log(`screens that did not open: ${failedScreens.length} (${[...why].map(([k, v]) => `${v} × ${k}`).join(', ')})`);
+	for (const f of failedScreens)
+		why.set(f.problem ?? 'not ready in time', (why.get(f.problem ?? 'not ready in time') ?? 0) + 1);
+	console.log(
+		`screens that did not open: ${failedScreens.length} (${[...why].map(([k, v]) => `${v} × ${k}`).join(', ')})`
+	);
 }
 if (writerFailures) console.log(`writer: ${writerFailures} moves refused`);
-console.log(`delivered: ${delivered} of ${expected} (${expected ? ((100 * delivered) / expected).toFixed(2) : 'n/a'} %)`);
+console.log(
+	`delivered: ${delivered} of ${expected} (${expected ? ((100 * delivered) / expected).toFixed(2) : 'n/a'} %)`
+);
 console.log(`change-to-screen, all: p50 ${ms(s.p50)}, p90 ${ms(s.p90)}, p99 ${ms(s.p99)}, max ${ms(s.max)}`);
 console.log(`  screens on A (same instance as the writer): p50 ${ms(sa.p50)}, p99 ${ms(sa.p99)}, max ${ms(sa.max)}`);
 console.log(`  screens on B (the other instance):          p50 ${ms(sb.p50)}, p99 ${ms(sb.p99)}, max ${ms(sb.max)}`);
-console.log(`writer's own answer (PATCH, the move): p50 ${ms(answers.p50)}, p99 ${ms(answers.p99)}, max ${ms(answers.max)}`);
+console.log(
+	`writer's own answer (PATCH, the move): p50 ${ms(answers.p50)}, p99 ${ms(answers.p99)}, max ${ms(answers.max)}`
+);
 const mib = (k) => `${(k / 1024).toFixed(1)} MiB`;
 for (const side of ['A', 'B']) {
 	if (!pids[side]) {
@@ -300,7 +319,10 @@ for (const x of list) {
 	x.closing = true;
 	x.req?.destroy();
 }
-const back = await json('PATCH', `${urlA}/api/wheels/${wheel.id}`, { cookie: writerCookie, body: { version, ...home } });
+const back = await json('PATCH', `${urlA}/api/wheels/${wheel.id}`, {
+	cookie: writerCookie,
+	body: { version, ...home }
+});
 if (back.status !== 200) console.error(`could not put wheel ${wheel.id} back (${back.status})`);
 if (failedScreens.length || writerFailures || delivered < expected) process.exitCode = 1;
 // Streams and keep-alive sockets would hold the process open; everything is printed.

@@ -32,7 +32,9 @@ if (!existsSync(join(root, 'build', 'index.js'))) {
 }
 for (const port of Object.values(ports)) {
 	if (pidListeningOn(port)) {
-		console.error(`[bench] Port ${port} is already in use; stop whatever listens there (or run the benches alone with BENCH_URL_A/B).`);
+		console.error(
+			`[bench] Port ${port} is already in use; stop whatever listens there (or run the benches alone with BENCH_URL_A/B).`
+		);
 		process.exit(1);
 	}
 }
@@ -56,7 +58,14 @@ function startInstance(name, port) {
 	const url = `http://127.0.0.1:${port}`;
 	const child = spawn(process.execPath, ['build'], {
 		cwd: root,
-		env: { ...process.env, HOST: '127.0.0.1', PORT: String(port), ORIGIN: url, AUTH_SECRET: authSecret, DATABASE_URL: databaseUrl },
+		env: {
+			...process.env,
+			HOST: '127.0.0.1',
+			PORT: String(port),
+			ORIGIN: url,
+			AUTH_SECRET: authSecret,
+			DATABASE_URL: databaseUrl
+		},
 		stdio: ['ignore', 'ignore', 'pipe']
 	});
 	child.stderr.on('data', (d) => process.stderr.write(`[instance ${name}] ${d}`));
@@ -66,7 +75,9 @@ let instances = [];
 async function startInstances() {
 	instances = Object.entries(ports).map(([name, port]) => startInstance(name, port));
 	await Promise.all(instances.map((i) => waitHealthy(i.url)));
-	log(`instances up: A ${instances[0].url} (pid ${instances[0].child.pid}), B ${instances[1].url} (pid ${instances[1].child.pid})`);
+	log(
+		`instances up: A ${instances[0].url} (pid ${instances[0].child.pid}), B ${instances[1].url} (pid ${instances[1].child.pid})`
+	);
 }
 
 async function stopInstances() {
@@ -106,16 +117,23 @@ try {
 		log(`running ${bench}`);
 		const started = performance.now();
 		const code = await new Promise((done) => {
-			const child = spawn(process.execPath, [join('tests', 'bench', bench)], { cwd: root, env: env(), stdio: 'inherit' });
+			const child = spawn(process.execPath, [join('tests', 'bench', bench)], {
+				cwd: root,
+				env: env(),
+				stdio: 'inherit'
+			});
 			const timer = setTimeout(() => child.kill('SIGKILL'), benchTimeoutMs);
 			child.on('exit', (c, signal) => {
 				clearTimeout(timer);
 				done(signal ? 1 : (c ?? 1));
 			});
 		});
-		log(`${bench} ${code === 0 ? 'done' : `exited with ${code}`} in ${((performance.now() - started) / 1000).toFixed(1)} s`);
+		log(
+			`${bench} ${code === 0 ? 'done' : `exited with ${code}`} in ${((performance.now() - started) / 1000).toFixed(1)} s`
+		);
 		if (code !== 0) failed++;
-		for (const i of instances) if (i.child.exitCode !== null) throw new Error(`instance ${i.name} exited (${i.child.exitCode})`);
+		for (const i of instances)
+			if (i.child.exitCode !== null) throw new Error(`instance ${i.name} exited (${i.child.exitCode})`);
 	}
 } catch (error) {
 	console.error(`[bench] ${error instanceof Error ? error.message : error}`);

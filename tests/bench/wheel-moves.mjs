@@ -30,8 +30,11 @@ const board = await json('GET', `${urlA}/api/board`, { cookie });
 if (board.status !== 200) throw new Error(`GET /api/board answered ${board.status}`);
 // The snapshot sends each wheel once and the bays refer to them by id, in queue order.
 const wheelById = new Map(board.body.wheels.map((w) => [w.id, w]));
-const bays = board.body.bays.filter((b) => b.active).map((b) => ({ ...b, wheels: b.wheelIds.map((id) => wheelById.get(id)) }));
-if (bays.length < clients * 2) throw new Error(`${clients} clients need ${clients * 2} active bays; the board has ${bays.length}`);
+const bays = board.body.bays
+	.filter((b) => b.active)
+	.map((b) => ({ ...b, wheels: b.wheelIds.map((id) => wheelById.get(id)) }));
+if (bays.length < clients * 2)
+	throw new Error(`${clients} clients need ${clients * 2} active bays; the board has ${bays.length}`);
 
 const movers = [];
 for (let i = 0; i < clients; i++) {
@@ -104,7 +107,9 @@ async function phase(label, { warmup, duration, mid }) {
 		`method: ${clients} concurrent clients, one request in flight each, ${warmup} s warm-up not counted, then ${duration} s ` +
 			`(measured ${wall.toFixed(2)} s); latency = request sent → answer read, in the client; nearest-rank percentiles`
 	);
-	console.log(`moves: ${s.n} ok, ${counts.conflict} × 409, ${counts.other} other${counts.other ? ` (${[...counts.otherStatuses].map(([k, v]) => `${v} × ${k}`).join(', ')})` : ''}`);
+	console.log(
+		`moves: ${s.n} ok, ${counts.conflict} × 409, ${counts.other} other${counts.other ? ` (${[...counts.otherStatuses].map(([k, v]) => `${v} × ${k}`).join(', ')})` : ''}`
+	);
 	console.log(`latency: p50 ${ms(s.p50)}, p90 ${ms(s.p90)}, p99 ${ms(s.p99)}, max ${ms(s.max)}`);
 	console.log(`throughput: ${(s.n / wall).toFixed(0)} moves/s`);
 	failures += counts.conflict + counts.other;

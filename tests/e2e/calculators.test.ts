@@ -2,7 +2,7 @@
 // Sources as in ../shared/reference/check-values.md; the expected values are worked out here, not pasted.
 import { expect, test, type Page } from '@playwright/test';
 import { calculators } from '../../src/lib/console/calculators';
-import { account } from '../support/accounts';
+import { openConsole } from '../support/console';
 
 const rad = (deg: number) => (deg * Math.PI) / 180;
 
@@ -65,12 +65,7 @@ const cases: { id: string; values: Record<string, string>; expect: string[]; sou
 ];
 
 async function openCalculators(page: Page) {
-	const { email, password } = account('tech');
-	await page.goto('/signin');
-	await page.getByLabel('E-mail').fill(email);
-	await page.getByLabel('Password').fill(password);
-	await page.getByRole('button', { name: 'Sign in' }).click();
-	await expect(page.getByTestId('connection')).toHaveAttribute('data-state', 'live');
+	await openConsole(page, 'tech');
 	await page.keyboard.press('c');
 	await expect(page.getByTestId('calculator-pick')).toBeFocused();
 }

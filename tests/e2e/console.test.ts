@@ -1,28 +1,16 @@
 // The console by keyboard: a lead sends a waiting job's wheels to a bay with two keys, and another signed-in screen
 // sees it within a second; a move made on top of a stale screen is refused with the conflict in words and the
 // screen ends showing the real floor; the help overlay lists every command of the role.
-import { expect, test, type Browser, type Page } from '@playwright/test';
+import { expect, test, type Page } from '@playwright/test';
 import { commandsFor } from '../../src/lib/console/commands';
-import { account } from '../support/accounts';
+import { consoleScreen } from '../support/console';
 import { withClient } from '../support/database';
-
-async function signedIn(browser: Browser, role: 'lead' | 'writer' | 'manager'): Promise<Page> {
-	const context = await browser.newContext();
-	const page = await context.newPage();
-	const { email, password } = account(role);
-	await page.goto('/signin');
-	await page.getByLabel('E-mail').fill(email);
-	await page.getByLabel('Password').fill(password);
-	await page.getByRole('button', { name: 'Sign in' }).click();
-	await expect(page.getByTestId('connection')).toHaveAttribute('data-state', 'live');
-	return page;
-}
 
 test('a lead sends the first waiting job to bay 3 by keyboard; a second screen sees it within a second', async ({
 	browser
 }) => {
-	const lead = await signedIn(browser, 'lead');
-	const writer = await signedIn(browser, 'writer');
+	const lead = await consoleScreen(browser, 'lead');
+	const writer = await consoleScreen(browser, 'writer');
 	const first = lead.locator('[aria-label="Waiting line"] li').first();
 	const number = await first.getAttribute('data-job');
 	expect(number).toBeTruthy();
@@ -47,7 +35,7 @@ test('a lead sends the first waiting job to bay 3 by keyboard; a second screen s
 });
 
 test('a move from a stale screen is refused in words and the screen shows the real floor', async ({ browser }) => {
-	const lead = await signedIn(browser, 'lead');
+	const lead = await consoleScreen(browser, 'lead');
 	const first = lead.locator('[aria-label="Waiting line"] li').first();
 	const number = Number(await first.getAttribute('data-job'));
 	await lead.keyboard.press('ArrowDown');
@@ -79,7 +67,7 @@ test('a move from a stale screen is refused in words and the screen shows the re
 });
 
 test('the help overlay lists every command the role has', async ({ browser }) => {
-	const manager = await signedIn(browser, 'manager');
+	const manager = await consoleScreen(browser, 'manager');
 	await manager.keyboard.press('Shift+Slash');
 	const rows = manager.getByTestId('help-commands').locator('tr');
 	const ids = await rows.evaluateAll((trs) => trs.map((tr) => tr.getAttribute('data-command')));

@@ -1,19 +1,8 @@
 // Intake by keyboard: a returning customer's job in at most 15 keystrokes (counted), seen in the database and on a
 // second signed-in screen; a new customer and vehicle; bad input shows field errors and saves nothing.
-import { expect, test, type Browser, type Page } from '@playwright/test';
-import { account } from '../support/accounts';
+import { expect, test } from '@playwright/test';
+import { consoleScreen } from '../support/console';
 import { withClient } from '../support/database';
-
-async function signedIn(browser: Browser, role: 'writer' | 'lead'): Promise<Page> {
-	const page = await (await browser.newContext()).newPage();
-	const { email, password } = account(role);
-	await page.goto('/signin');
-	await page.getByLabel('E-mail').fill(email);
-	await page.getByLabel('Password').fill(password);
-	await page.getByRole('button', { name: 'Sign in' }).click();
-	await expect(page.getByTestId('connection')).toHaveAttribute('data-state', 'live');
-	return page;
-}
 
 const jobCount = async () =>
 	Number(
@@ -32,8 +21,8 @@ test('a returning customer’s job takes at most 15 keystrokes and reaches every
 		            AND (SELECT count(*) FROM customer_vehicles o WHERE o.plate = cv.plate) = 1 ORDER BY cv.id LIMIT 1`)
 	);
 	const target = rows[0];
-	const writer = await signedIn(browser, 'writer');
-	const lead = await signedIn(browser, 'lead');
+	const writer = await consoleScreen(browser, 'writer');
+	const lead = await consoleScreen(browser, 'lead');
 	let keystrokes = 0;
 	const press = async (key: string) => {
 		keystrokes++;
@@ -73,7 +62,7 @@ test('a returning customer’s job takes at most 15 keystrokes and reaches every
 });
 
 test('a new customer and vehicle through intake', async ({ browser }) => {
-	const writer = await signedIn(browser, 'writer');
+	const writer = await consoleScreen(browser, 'writer');
 	const vehicle = (await withClient((c) => c.query(`SELECT id, make, model FROM vehicles ORDER BY id DESC LIMIT 1`)))
 		.rows[0];
 	await writer.keyboard.press('n');
@@ -105,7 +94,7 @@ test('a new customer and vehicle through intake', async ({ browser }) => {
 });
 
 test('bad input shows the field errors and saves nothing', async ({ browser }) => {
-	const writer = await signedIn(browser, 'writer');
+	const writer = await consoleScreen(browser, 'writer');
 	const before = await jobCount();
 	await writer.keyboard.press('n');
 	await writer.keyboard.press('Tab'); // a new customer, but no name typed

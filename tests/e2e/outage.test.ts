@@ -3,6 +3,7 @@
 import { spawnSync } from 'node:child_process';
 import { expect, test } from '@playwright/test';
 import { account } from '../support/accounts';
+import { submitSignIn } from '../support/console';
 
 function cluster(command: 'start' | 'stop') {
 	const result = spawnSync(process.execPath, ['scripts/db.mjs', command, '--test'], { encoding: 'utf8' });
@@ -15,10 +16,7 @@ test('health answers 503 quickly while the database is stopped and 200 after it 
 }) => {
 	test.setTimeout(90_000);
 	const manager = account('manager');
-	await page.goto('/signin');
-	await page.getByLabel('E-mail').fill(manager.email);
-	await page.getByLabel('Password').fill(manager.password);
-	await page.getByRole('button', { name: 'Sign in' }).click();
+	await submitSignIn(page, manager.email, manager.password);
 	await expect(page.getByTestId('role')).toHaveText('Manager');
 
 	expect((await request.get('/api/health')).status()).toBe(200);

@@ -1,17 +1,8 @@
 // The command palette finds what a writer types in a hurry: a vehicle from a misspelt, out-of-order query, a customer
 // by a phone fragment (server search), and a job by its number; Enter acts on the pick.
 import { expect, test, type Page } from '@playwright/test';
-import { account } from '../support/accounts';
+import { openConsole } from '../support/console';
 import { withClient } from '../support/database';
-
-async function openConsole(page: Page) {
-	const { email, password } = account('writer');
-	await page.goto('/signin');
-	await page.getByLabel('E-mail').fill(email);
-	await page.getByLabel('Password').fill(password);
-	await page.getByRole('button', { name: 'Sign in' }).click();
-	await expect(page.getByTestId('connection')).toHaveAttribute('data-state', 'live');
-}
 
 async function search(page: Page, query: string) {
 	await page.keyboard.press('/');
@@ -38,7 +29,7 @@ test('a misspelt, out-of-order vehicle query finds the vehicle and shows its whe
 			)
 		)
 	).rows[0];
-	await openConsole(page);
+	await openConsole(page, 'writer');
 	await search(page, `${swapped(v.model)} ${dropped(v.make)} ${v.year_from}`);
 	await expect(page.locator(`[data-result="vehicle:${v.id}"]`)).toBeVisible();
 	const vehicles = await page
@@ -70,7 +61,7 @@ test('a phone fragment finds the customer through the server search', async ({ p
 	).rows[0];
 	expect(c, 'the demo data has a customer with a distinct phone number').toBeTruthy();
 	const fragment = c.phone.replace(/\D/g, '').slice(-8);
-	await openConsole(page);
+	await openConsole(page, 'writer');
 	await search(page, fragment);
 	await expect(page.locator(`[data-result="customer:${c.id}"]`)).toBeVisible();
 	await page.locator(`[data-result="customer:${c.id}"]`).click();
@@ -78,7 +69,7 @@ test('a phone fragment finds the customer through the server search', async ({ p
 });
 
 test('a job number finds the job, and Enter selects it in the console', async ({ page }) => {
-	await openConsole(page);
+	await openConsole(page, 'writer');
 	const number = await page.locator('[aria-label="Waiting line"] li').first().getAttribute('data-job');
 	await search(page, number!);
 	await expect(page.locator('[data-result^="job:"]').first()).toContainText(`#${number}`);

@@ -1,17 +1,11 @@
 // Sign-in end to end in Chromium: every role reaches the shell, a wrong password is refused without saying whether
 // the account exists, repeated failures are slowed, and a disabled user is refused on their next request.
-import { expect, test, type Page } from '@playwright/test';
+import { expect, test } from '@playwright/test';
 import { hash } from '@node-rs/argon2';
 import { roleLabels, roles } from '../../src/lib/roles';
 import { account } from '../support/accounts';
+import { submitSignIn } from '../support/console';
 import { withClient } from '../support/database';
-
-async function signIn(page: Page, email: string, password: string) {
-	await page.goto('/signin');
-	await page.getByLabel('E-mail').fill(email);
-	await page.getByLabel('Password').fill(password);
-	await page.getByRole('button', { name: 'Sign in' }).click();
-}
 
 test('a signed-out visitor is sent to the sign-in page', async ({ page }) => {
 	await page.goto('/');
@@ -22,7 +16,7 @@ test('a signed-out visitor is sent to the sign-in page', async ({ page }) => {
 for (const role of roles) {
 	test(`the ${role} signs in to the shell, which shows the role, and signs out`, async ({ page }) => {
 		const demo = account(role);
-		await signIn(page, demo.email, demo.password);
+		await submitSignIn(page, demo.email, demo.password);
 		await expect(page).toHaveURL('/');
 		await expect(page.getByTestId('role')).toHaveText(roleLabels[role]);
 		await expect(page.getByTestId('signed-in-as')).toContainText(demo.name);
@@ -36,11 +30,11 @@ for (const role of roles) {
 
 test('a wrong password and an unknown account get the same answer', async ({ page }) => {
 	const writer = account('writer');
-	await signIn(page, writer.email, 'not-the-password');
+	await submitSignIn(page, writer.email, 'not-the-password');
 	const alert = page.getByRole('alert');
 	await expect(alert).toContainText('do not match an active account');
 	const wrongPassword = await alert.textContent();
-	await signIn(page, 'nobody-here@demo.lugline.test', 'whatever-1');
+	await submitSignIn(page, 'nobody-here@demo.lugline.test', 'whatever-1');
 	await expect(page.getByRole('alert')).toHaveText(wrongPassword ?? '');
 	await expect(page).toHaveURL(/\/signin/);
 	await page.goto('/');
@@ -49,8 +43,8 @@ test('a wrong password and an unknown account get the same answer', async ({ pag
 
 test('repeated failures for one account are slowed, and the counter lives in the database', async ({ page }) => {
 	const email = `slowed-${Date.now()}@demo.lugline.test`;
-	for (let i = 0; i < 6; i++) await signIn(page, email, `wrong-${i}`);
-	await signIn(page, email, 'wrong-again');
+	for (let i = 0; i < 6; i++) await submitSignIn(page, email, `wrong-${i}`);
+	await submitSignIn(page, email, 'wrong-again');
 	await expect(page.getByRole('alert')).toContainText('Too many failed sign-ins');
 	const row = await withClient((c) =>
 		c.query('SELECT failures, locked_until > now() AS locked FROM signin_failures WHERE account_key = $1', [email])
@@ -71,7 +65,7 @@ test('a disabled user is refused on the next request', async ({ page }) => {
 		return inserted.rows[0].id as number;
 	});
 	try {
-		await signIn(page, email, password);
+		await submitSignIn(page, email, password);
 		await expect(page.getByTestId('role')).toHaveText(roleLabels.writer);
 		await withClient((c) =>
 			c.query('UPDATE users SET active = false, session_version = session_version + 1 WHERE id = $1', [id])
@@ -81,7 +75,7 @@ test('a disabled user is refused on the next request', async ({ page }) => {
 		const me = await page.request.get('/api/me');
 		expect(me.status()).toBe(401);
 		// Signing in again fails like a wrong password: nothing says the account exists but is disabled.
-		await signIn(page, email, password);
+		await submitSignIn(page, email, password);
 		await expect(page.getByRole('alert')).toContainText('do not match an active account');
 	} finally {
 		await withClient((c) => c.query('DELETE FROM users WHERE id = $1', [id]));

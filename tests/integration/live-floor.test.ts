@@ -210,17 +210,23 @@ describe('two app instances on one database', () => {
 		}
 	});
 
-	it('a board loaded again after a change made through the other instance shows the change', { timeout: 30_000 }, async () => {
-		const before = await leadA.call('GET', '/api/board'); // fills instance A's copy of the board
-		const stream = openStream(instances[0].url, cookie, before.body.cursor);
-		await stream.until((e) => e.some((x) => x.event === 'ready'));
-		const made = await leadB.call('POST', '/api/jobs', newJob());
-		expect(made.status).toBe(201);
-		// Once instance A has heard of the change, its board must include it.
-		await stream.until((e) => e.some((x) => x.event === 'floor' && x.data.jobs.some((j: { id: number }) => j.id === made.body.id)));
-		stream.close();
-		const after = await leadA.call('GET', '/api/board');
-		expect(after.body.jobs.map((j: { id: number }) => j.id)).toContain(made.body.id);
-		expect(after.body.cursor).toBeGreaterThan(before.body.cursor);
-	});
+	it(
+		'a board loaded again after a change made through the other instance shows the change',
+		{ timeout: 30_000 },
+		async () => {
+			const before = await leadA.call('GET', '/api/board'); // fills instance A's copy of the board
+			const stream = openStream(instances[0].url, cookie, before.body.cursor);
+			await stream.until((e) => e.some((x) => x.event === 'ready'));
+			const made = await leadB.call('POST', '/api/jobs', newJob());
+			expect(made.status).toBe(201);
+			// Once instance A has heard of the change, its board must include it.
+			await stream.until((e) =>
+				e.some((x) => x.event === 'floor' && x.data.jobs.some((j: { id: number }) => j.id === made.body.id))
+			);
+			stream.close();
+			const after = await leadA.call('GET', '/api/board');
+			expect(after.body.jobs.map((j: { id: number }) => j.id)).toContain(made.body.id);
+			expect(after.body.cursor).toBeGreaterThan(before.body.cursor);
+		}
+	);
 });
