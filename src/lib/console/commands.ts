@@ -3,15 +3,17 @@
 // which ignores keys typed into fields.
 import type { Role } from '$lib/roles';
 import type { Board } from '$lib/state/board.svelte';
-import type { JobView, WheelView } from '$lib/schemas/floor';
+import type { JobView } from '$lib/schemas/floor';
+import * as pick from './selection';
+import type { Move, Selection } from './selection';
 
 export interface ConsoleContext {
 	role: Role;
 	board: Board;
 	/** Jobs in screen order: the waiting line, then each bay's jobs in queue order. */
 	order(): JobView[];
-	selected(): JobView | undefined;
-	select(jobId: number | null): void;
+	selection(): Selection | null;
+	select(selection: Selection | null): void;
 	toggleHelp(): void;
 	openPalette(): void;
 	openIntake(): void;
@@ -38,15 +40,9 @@ const hands = ['lead', 'tech', 'manager'] as const;
 function step(ctx: ConsoleContext, by: number) {
 	const jobs = ctx.order();
 	if (jobs.length === 0) return;
-	const at = jobs.findIndex((j) => j.id === ctx.selected()?.id);
+	const at = jobs.findIndex((j) => j.id === pick.jobOf(ctx.board, ctx.selection())?.id);
 	const next = at < 0 ? (by > 0 ? 0 : jobs.length - 1) : Math.min(Math.max(at + by, 0), jobs.length - 1);
-	ctx.select(jobs[next].id);
-}
-
-/** Queued wheels of the selected job, in or out of a bay: the ones a lead can still send somewhere. */
-function movable(ctx: ConsoleContext): WheelView[] {
-	const job = ctx.selected();
-	return job ? ctx.board.wheelsOf(job.id).filter((w) => w.state === 'queued') : [];
+	ctx.select({ kind: 'job', jobId: jobs[next].id });
 }
 
 async function report(ctx: ConsoleContext, outcome: Promise<{ ok: true } | { ok: false; message: string }>) {
@@ -54,25 +50,37 @@ async function report(ctx: ConsoleContext, outcome: Promise<{ ok: true } | { ok:
 	if (!result.ok) ctx.say(result.message);
 }
 
+/** Sends a move to the board (optimistic; a refusal rolls back and is said in words). */
+export function move(ctx: ConsoleContext, m: Move | null) {
+	if (!m) return;
+	return report(ctx, ctx.board.moveWheels(m.wheelIds, m.bayId, m.queuePosition));
+}
+
 function sendToBay(n: number): Command {
 	return {
 		id: `send-to-bay-${n}`,
-		title: `Send the selected job's queued wheels to bay ${n}`,
+		title: `Send the selection's queued wheels to bay ${n}`,
 		keywords: ['move', 'bay', 'assign', String(n)],
 		keys: [String(n)],
 		roles: leads,
-		when: (ctx) => movable(ctx).length > 0 && ctx.board.lanes.length >= n,
+		when: (ctx) => ctx.board.lanes.length >= n && pick.sendTo(ctx.board, ctx.selection(), ctx.board.lanes[n - 1].id) !== null,
 		run: (ctx) => {
 			const bay = ctx.board.lanes[n - 1];
 			if (!bay.active) return ctx.say(`Bay ${bay.code} is out of service.`);
-			return report(
-				ctx,
-				ctx.board.moveWheels(
-					movable(ctx).map((w) => w.id),
-					bay.id
-				)
-			);
+			return move(ctx, pick.sendTo(ctx.board, ctx.selection(), bay.id));
 		}
+	};
+}
+
+function selectBay(n: number): Command {
+	return {
+		id: `select-bay-${n}`,
+		title: `Select bay ${n}'s queue`,
+		keywords: ['bay', 'queue', 'lane', String(n)],
+		keys: [`shift+${n}`],
+		roles: everyone,
+		when: (ctx) => ctx.board.lanes.length >= n,
+		run: (ctx) => ctx.select({ kind: 'bay', bayId: ctx.board.lanes[n - 1].id })
 	};
 }
 
@@ -94,59 +102,78 @@ export const commands: Command[] = [
 		run: (ctx) => step(ctx, -1)
 	},
 	{
+		id: 'next-wheel',
+		title: "Select the selected job's next wheel",
+		keywords: ['wheel', 'right', 'next'],
+		keys: ['right', 'l'],
+		roles: everyone,
+		when: (ctx) => pick.stepWheel(ctx.board, ctx.selection(), 1) !== null,
+		run: (ctx) => ctx.select(pick.stepWheel(ctx.board, ctx.selection(), 1))
+	},
+	{
+		id: 'previous-wheel',
+		title: "Select the selected job's previous wheel",
+		keywords: ['wheel', 'left', 'previous'],
+		keys: ['left', 'h'],
+		roles: everyone,
+		when: (ctx) => pick.stepWheel(ctx.board, ctx.selection(), -1) !== null,
+		run: (ctx) => ctx.select(pick.stepWheel(ctx.board, ctx.selection(), -1))
+	},
+	...[1, 2, 3, 4, 5, 6, 7, 8, 9].map(selectBay),
+	{
 		id: 'clear-selection',
 		title: 'Clear the selection',
 		keywords: ['escape', 'deselect'],
 		keys: ['esc'],
 		roles: everyone,
-		when: (ctx) => ctx.selected() !== undefined,
+		when: (ctx) => ctx.selection() !== null,
 		run: (ctx) => ctx.select(null)
 	},
 	...[1, 2, 3, 4, 5, 6, 7, 8, 9].map(sendToBay),
 	{
+		id: 'move-earlier',
+		title: 'Move the selection one place earlier in its bay',
+		keywords: ['reorder', 'up', 'earlier', 'sooner', 'priority'],
+		keys: ['shift+up', 'shift+k'],
+		roles: leads,
+		when: (ctx) => pick.reorder(ctx.board, ctx.selection(), -1) !== null,
+		run: (ctx) => move(ctx, pick.reorder(ctx.board, ctx.selection(), -1))
+	},
+	{
+		id: 'move-later',
+		title: 'Move the selection one place later in its bay',
+		keywords: ['reorder', 'down', 'later'],
+		keys: ['shift+down', 'shift+j'],
+		roles: leads,
+		when: (ctx) => pick.reorder(ctx.board, ctx.selection(), 1) !== null,
+		run: (ctx) => move(ctx, pick.reorder(ctx.board, ctx.selection(), 1))
+	},
+	{
 		id: 'back-to-waiting',
-		title: "Take the selected job's queued wheels back to the waiting line",
+		title: "Take the selection's queued wheels back to the waiting line",
 		keywords: ['unassign', 'waiting', 'back'],
 		keys: ['w'],
 		roles: leads,
-		when: (ctx) => movable(ctx).some((w) => w.bayId !== null),
-		run: (ctx) =>
-			report(
-				ctx,
-				ctx.board.moveWheels(
-					movable(ctx)
-						.filter((w) => w.bayId !== null)
-						.map((w) => w.id),
-					null
-				)
-			)
+		when: (ctx) => pick.backToWaiting(ctx.board, ctx.selection()) !== null,
+		run: (ctx) => move(ctx, pick.backToWaiting(ctx.board, ctx.selection()))
 	},
 	{
 		id: 'start-wheel',
-		title: 'Start the next queued wheel of the selected job (in its bay)',
+		title: 'Start the selected wheel, or the next queued one of the job or bay',
 		keywords: ['start', 'begin', 'work'],
 		keys: ['s'],
 		roles: hands,
-		when: (ctx) => movable(ctx).some((w) => w.bayId !== null),
-		run: (ctx) => {
-			const next = movable(ctx).find((w) => w.bayId !== null)!;
-			return report(ctx, ctx.board.patchWheel(next.id, { state: 'working' }));
-		}
+		when: (ctx) => pick.toStart(ctx.board, ctx.selection()) !== undefined,
+		run: (ctx) => report(ctx, ctx.board.patchWheel(pick.toStart(ctx.board, ctx.selection())!.id, { state: 'working' }))
 	},
 	{
 		id: 'finish-wheel',
-		title: 'Finish the wheel being worked on for the selected job',
+		title: 'Finish the wheel being worked on in the selection',
 		keywords: ['finish', 'done', 'complete'],
 		keys: ['f'],
 		roles: hands,
-		when: (ctx) => {
-			const job = ctx.selected();
-			return !!job && ctx.board.wheelsOf(job.id).some((w) => w.state === 'working');
-		},
-		run: (ctx) => {
-			const working = ctx.board.wheelsOf(ctx.selected()!.id).find((w) => w.state === 'working')!;
-			return report(ctx, ctx.board.patchWheel(working.id, { state: 'done' }));
-		}
+		when: (ctx) => pick.toFinish(ctx.board, ctx.selection()) !== undefined,
+		run: (ctx) => report(ctx, ctx.board.patchWheel(pick.toFinish(ctx.board, ctx.selection())!.id, { state: 'done' }))
 	},
 	{
 		id: 'new-job',
@@ -188,6 +215,16 @@ export function commandsFor(role: Role): Command[] {
 
 /** How a key name reads on screen. */
 export function keyLabel(key: string): string {
-	const names: Record<string, string> = { down: '↓', up: '↑', esc: 'Esc', 'shift+/': '?', 'ctrl+k': 'Ctrl+K' };
-	return names[key] ?? key.toUpperCase();
+	const names: Record<string, string> = {
+		down: '↓',
+		up: '↑',
+		left: '←',
+		right: '→',
+		esc: 'Esc',
+		'shift+/': '?',
+		'ctrl+k': 'Ctrl+K'
+	};
+	if (names[key]) return names[key];
+	if (key.startsWith('shift+')) return `Shift+${keyLabel(key.slice(6))}`;
+	return key.toUpperCase();
 }

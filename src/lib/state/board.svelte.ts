@@ -197,6 +197,10 @@ export class Board {
 		return this.floor?.jobs.get(id);
 	}
 
+	wheel(id: number): WheelView | undefined {
+		return this.floor?.wheels.get(id);
+	}
+
 	wheelsOf(jobId: number): WheelView[] {
 		return this.#byJob.get(jobId) ?? [];
 	}

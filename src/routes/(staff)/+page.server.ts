@@ -10,5 +10,5 @@ export const load: PageServerLoad = async ({ locals }) => {
 	const [snapshot, services] = await orUnavailable(() =>
 		Promise.all([boardCache.snapshot(staff.storeId), stores.services(staff.storeId)])
 	);
-	return { board: snapshot, services, role: staff.role };
+	return { board: snapshot, services, role: staff.role, userId: staff.userId };
 };
