@@ -63,7 +63,8 @@ function sendToBay(n: number): Command {
 		keywords: ['move', 'bay', 'assign', String(n)],
 		keys: [String(n)],
 		roles: leads,
-		when: (ctx) => ctx.board.lanes.length >= n && pick.sendTo(ctx.board, ctx.selection(), ctx.board.lanes[n - 1].id) !== null,
+		when: (ctx) =>
+			ctx.board.lanes.length >= n && pick.sendTo(ctx.board, ctx.selection(), ctx.board.lanes[n - 1].id) !== null,
 		run: (ctx) => {
 			const bay = ctx.board.lanes[n - 1];
 			if (!bay.active) return ctx.say(`Bay ${bay.code} is out of service.`);

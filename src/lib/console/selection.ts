@@ -4,7 +4,8 @@
 import type { JobView, WheelView } from '$lib/schemas/floor';
 import type { Lane } from '$lib/state/floor-model';
 
-export type Selection = { kind: 'job'; jobId: number } | { kind: 'wheel'; wheelId: number } | { kind: 'bay'; bayId: number };
+export type Selection =
+	{ kind: 'job'; jobId: number } | { kind: 'wheel'; wheelId: number } | { kind: 'bay'; bayId: number };
 
 /** The part of the board the selection rules read (the Board class has it). */
 export interface FloorView {
