@@ -24,6 +24,8 @@ export interface ConsoleContext {
 export interface Command {
 	id: string;
 	title: string;
+	/** A word or two for the status line. */
+	label: string;
 	keywords: string[];
 	/** hotkeys-js key names; the first is shown in the status line and the help. */
 	keys: string[];
@@ -60,6 +62,7 @@ function sendToBay(n: number): Command {
 	return {
 		id: `send-to-bay-${n}`,
 		title: `Send the selection's queued wheels to bay ${n}`,
+		label: `to bay ${n}`,
 		keywords: ['move', 'bay', 'assign', String(n)],
 		keys: [String(n)],
 		roles: leads,
@@ -77,6 +80,7 @@ function selectBay(n: number): Command {
 	return {
 		id: `select-bay-${n}`,
 		title: `Select bay ${n}'s queue`,
+		label: `bay ${n}`,
 		keywords: ['bay', 'queue', 'lane', String(n)],
 		keys: [`shift+${n}`],
 		roles: everyone,
@@ -89,6 +93,7 @@ export const commands: Command[] = [
 	{
 		id: 'select-next',
 		title: 'Select the next job',
+		label: 'next job',
 		keywords: ['down', 'next'],
 		keys: ['down', 'j'],
 		roles: everyone,
@@ -97,6 +102,7 @@ export const commands: Command[] = [
 	{
 		id: 'select-previous',
 		title: 'Select the previous job',
+		label: 'previous job',
 		keywords: ['up', 'previous'],
 		keys: ['up', 'k'],
 		roles: everyone,
@@ -105,6 +111,7 @@ export const commands: Command[] = [
 	{
 		id: 'next-wheel',
 		title: "Select the selected job's next wheel",
+		label: 'next wheel',
 		keywords: ['wheel', 'right', 'next'],
 		keys: ['right', 'l'],
 		roles: everyone,
@@ -114,6 +121,7 @@ export const commands: Command[] = [
 	{
 		id: 'previous-wheel',
 		title: "Select the selected job's previous wheel",
+		label: 'previous wheel',
 		keywords: ['wheel', 'left', 'previous'],
 		keys: ['left', 'h'],
 		roles: everyone,
@@ -124,6 +132,7 @@ export const commands: Command[] = [
 	{
 		id: 'clear-selection',
 		title: 'Clear the selection',
+		label: 'clear',
 		keywords: ['escape', 'deselect'],
 		keys: ['esc'],
 		roles: everyone,
@@ -134,6 +143,7 @@ export const commands: Command[] = [
 	{
 		id: 'move-earlier',
 		title: 'Move the selection one place earlier in its bay',
+		label: 'earlier',
 		keywords: ['reorder', 'up', 'earlier', 'sooner', 'priority'],
 		keys: ['shift+up', 'shift+k'],
 		roles: leads,
@@ -143,6 +153,7 @@ export const commands: Command[] = [
 	{
 		id: 'move-later',
 		title: 'Move the selection one place later in its bay',
+		label: 'later',
 		keywords: ['reorder', 'down', 'later'],
 		keys: ['shift+down', 'shift+j'],
 		roles: leads,
@@ -152,6 +163,7 @@ export const commands: Command[] = [
 	{
 		id: 'back-to-waiting',
 		title: "Take the selection's queued wheels back to the waiting line",
+		label: 'to waiting',
 		keywords: ['unassign', 'waiting', 'back'],
 		keys: ['w'],
 		roles: leads,
@@ -161,6 +173,7 @@ export const commands: Command[] = [
 	{
 		id: 'start-wheel',
 		title: 'Start the selected wheel, or the next queued one of the job or bay',
+		label: 'start',
 		keywords: ['start', 'begin', 'work'],
 		keys: ['s'],
 		roles: hands,
@@ -170,6 +183,7 @@ export const commands: Command[] = [
 	{
 		id: 'finish-wheel',
 		title: 'Finish the wheel being worked on in the selection',
+		label: 'finish',
 		keywords: ['finish', 'done', 'complete'],
 		keys: ['f'],
 		roles: hands,
@@ -179,6 +193,7 @@ export const commands: Command[] = [
 	{
 		id: 'new-job',
 		title: 'Take in a new job',
+		label: 'new job',
 		keywords: ['intake', 'new', 'job', 'customer', 'add'],
 		keys: ['n'],
 		roles: ['writer', 'lead', 'manager'],
@@ -187,6 +202,7 @@ export const commands: Command[] = [
 	{
 		id: 'calculators',
 		title: 'Open the calculators',
+		label: 'calculators',
 		keywords: ['calculator', 'pressure', 'weight', 'size', 'bolt', 'load', 'speed', 'dot', 'age', 'pace'],
 		keys: ['c'],
 		roles: ['writer', 'lead', 'tech', 'manager'],
@@ -195,6 +211,7 @@ export const commands: Command[] = [
 	{
 		id: 'open-palette',
 		title: 'Search jobs, customers, vehicles and commands',
+		label: 'search',
 		keywords: ['search', 'find', 'palette', 'go'],
 		keys: ['/', 'ctrl+k'],
 		roles: everyone,
@@ -203,6 +220,7 @@ export const commands: Command[] = [
 	{
 		id: 'help',
 		title: 'Show or hide the list of keys',
+		label: 'all keys',
 		keywords: ['help', 'keys', 'shortcuts'],
 		keys: ['shift+/'],
 		roles: everyone,
