@@ -5,12 +5,15 @@ import { sequence } from '@sveltejs/kit/hooks';
 import { apiSession, authHandle, type StaffSession } from '$lib/server/auth';
 import { allows, ruleFor } from '$lib/server/authz';
 import { close as closeDatabase, isDatabaseUnavailable } from '$lib/server/db';
+import * as claims from '$lib/server/db/claims';
+import { CLAIM_HEADER } from '$lib/schemas/bay';
 import { stop as stopListener } from '$lib/server/live/listener';
 
 const isApi = (pathname: string) => pathname.startsWith('/api/');
 
 function refuse(pathname: string, status: 401 | 403 | 503, message: string, code: string) {
-	if (isApi(pathname)) return json({ code, message }, { status, headers: status === 503 ? { 'Retry-After': '5' } : {} });
+	if (isApi(pathname))
+		return json({ code, message }, { status, headers: status === 503 ? { 'Retry-After': '5' } : {} });
 	return new Response(message, { status, headers: { 'content-type': 'text/plain; charset=utf-8' } });
 }
 
@@ -34,15 +37,27 @@ const authorise: Handle = async ({ event, resolve }) => {
 			staff = session?.staff;
 		}
 	} catch (e) {
-		if (isDatabaseUnavailable(e)) return refuse(url.pathname, 503, 'The database is not answering. Try again in a few seconds.', 'database_unavailable');
+		if (isDatabaseUnavailable(e))
+			return refuse(
+				url.pathname,
+				503,
+				'The database is not answering. Try again in a few seconds.',
+				'database_unavailable'
+			);
 		throw e;
 	}
 	if (!staff) {
-		if (isApi(url.pathname) || request.method !== 'GET') return refuse(url.pathname, 401, 'Sign in first.', 'signed_out');
+		if (isApi(url.pathname) || request.method !== 'GET')
+			return refuse(url.pathname, 401, 'Sign in first.', 'signed_out');
 		redirect(303, `/signin?redirectTo=${encodeURIComponent(url.pathname + url.search)}`);
 	}
 	if (staff.unverified) {
-		return refuse(url.pathname, 503, 'The database is not answering. Try again in a few seconds.', 'database_unavailable');
+		return refuse(
+			url.pathname,
+			503,
+			'The database is not answering. Try again in a few seconds.',
+			'database_unavailable'
+		);
 	}
 	if (!allows(decision.access, staff.role)) {
 		if (isApi(url.pathname) || request.method !== 'GET') {
@@ -51,6 +66,34 @@ const authorise: Handle = async ({ event, resolve }) => {
 		error(403, 'Your role may not open this page.');
 	}
 	event.locals.staff = staff;
+
+	// A claimed bay screen acts as the person who claimed it (src/lib/server/db/claims.ts), within that person's role.
+	const token = isApi(url.pathname) ? request.headers.get(CLAIM_HEADER) : null;
+	if (token) {
+		let claim: claims.Claim | undefined;
+		try {
+			claim = await claims.resolve(staff.storeId, token);
+		} catch (e) {
+			if (isDatabaseUnavailable(e))
+				return refuse(
+					url.pathname,
+					503,
+					'The database is not answering. Try again in a few seconds.',
+					'database_unavailable'
+				);
+			throw e;
+		}
+		if (!claim)
+			return refuse(
+				url.pathname,
+				401,
+				'This bay screen is no longer claimed. Claim it again with your PIN.',
+				'claim_ended'
+			);
+		if (!allows(decision.access, claim.role))
+			return refuse(url.pathname, 403, `${claim.name}'s role may not do this.`, 'forbidden');
+		event.locals.claim = claim;
+	}
 	return resolve(event);
 };
 
@@ -62,7 +105,8 @@ process.on('sveltekit:shutdown', () => {
 });
 
 export const handleError: HandleServerError = ({ error: e, status, message }) => {
-	if (isDatabaseUnavailable(e)) return { message: 'The database is not answering. Try again in a few seconds.', code: 'database_unavailable' };
+	if (isDatabaseUnavailable(e))
+		return { message: 'The database is not answering. Try again in a few seconds.', code: 'database_unavailable' };
 	if (status >= 500) console.error(e);
 	return { message, code: status === 404 ? 'not_found' : 'internal' };
 };

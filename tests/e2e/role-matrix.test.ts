@@ -11,7 +11,10 @@ const examples: Record<string, string> = {
 	// Demo job 1 and wheel 1 exist in the seeded store of every role in this matrix.
 	'/api/jobs/[id=id]': '/api/jobs/1',
 	'/api/wheels/[id=id]': '/api/wheels/1',
-	'/api/vehicles/[id=id]': '/api/vehicles/1'
+	'/api/vehicles/[id=id]': '/api/vehicles/1',
+	'/api/wheels/[id=id]/record': '/api/wheels/1/record',
+	'/api/bays/[code=code]/claim': '/api/bays/B1/claim',
+	'/(staff)/bay/[code=code]': '/bay/B1'
 };
 
 function urlFor(routeId: string): string {

@@ -10,3 +10,4 @@ export * from './bolt-circle';
 export * from './balance';
 export * from './uniformity';
 export * from './pacing';
+export * from './repair';

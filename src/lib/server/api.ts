@@ -15,7 +15,8 @@ export class ApiError extends Error {
 		readonly status: number,
 		readonly code: string,
 		message: string,
-		readonly issues?: ApiIssue[]
+		readonly issues?: ApiIssue[],
+		readonly headers: Record<string, string> = {}
 	) {
 		super(message);
 	}
@@ -70,7 +71,11 @@ export async function respond(work: () => Promise<Response>): Promise<Response> 
 	try {
 		return await work();
 	} catch (e) {
-		if (e instanceof ApiError) return problem(e.status, e.code, e.message, e.issues ? { issues: e.issues } : {});
+		if (e instanceof ApiError) {
+			const response = problem(e.status, e.code, e.message, e.issues ? { issues: e.issues } : {});
+			for (const [name, value] of Object.entries(e.headers)) response.headers.set(name, value);
+			return response;
+		}
 		if (e instanceof VersionConflict) return problem(409, 'version_conflict', e.message, { current: e.current });
 		if (e instanceof NotFound) return problem(404, 'not_found', e.message || 'Not found.');
 		if (e instanceof Forbidden) return problem(403, 'forbidden', e.message || 'Your role may not do this.');

@@ -42,7 +42,12 @@ export const authorisation: Record<string, Rule> = {
 	'/api/jobs/[id=id]': { kind: 'api', methods: { GET: 'staff', PATCH: counter } },
 	// Finer rules inside (a technician only in their own bay): src/lib/server/db/wheels.ts.
 	'/api/wheels/[id=id]': { kind: 'api', methods: { PATCH: floorHands } },
-	'/api/wheels/move': { kind: 'api', methods: { POST: leadsOnly } }
+	'/api/wheels/move': { kind: 'api', methods: { POST: leadsOnly } },
+	// Finer rules inside (a technician only for wheels of their bay): src/lib/server/db/records.ts.
+	'/api/wheels/[id=id]/record': { kind: 'api', methods: { GET: 'staff', PUT: floorHands } },
+	// Any signed-in screen may be claimed; the PIN decides who (src/lib/server/db/claims.ts).
+	'/api/bays/[code=code]/claim': { kind: 'api', methods: { POST: 'staff', DELETE: 'staff' } },
+	'/(staff)/bay/[code=code]': { kind: 'page', load: 'staff' }
 };
 
 export function allows(access: Access, role: Role | undefined): boolean {

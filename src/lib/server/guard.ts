@@ -13,6 +13,8 @@ export function staffOf(locals: App.Locals): StaffSession {
 /** The acting user of an API request, as the domain modules take it. */
 export function actorOf(locals: App.Locals): Actor {
 	const { userId, storeId, role } = staffOf(locals);
+	// On a claimed bay screen the person who claimed it acts (hooks.server.ts checked the claim and the role).
+	if (locals.claim) return { userId: locals.claim.userId, storeId, role: locals.claim.role };
 	return { userId, storeId, role };
 }
 

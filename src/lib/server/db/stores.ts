@@ -29,3 +29,25 @@ export async function services(storeId: number): Promise<ServiceEntry[]> {
 		.where({ store_id: storeId, active: true })
 		.orderBy(['position', 'code']);
 }
+
+/** The limits and rules the bay screen checks a wheel record against (DESIGN.md §5). */
+export interface StoreRules {
+	forceLimitN: number;
+	weightIncrementG: number;
+	leadAllowed: boolean;
+	tireAgeLimitYears: number;
+}
+
+export async function rules(storeId: number): Promise<StoreRules | undefined> {
+	const row = await db()('stores')
+		.select('force_variation_limit_n', 'weight_rules', 'tire_age_limit_years')
+		.where({ id: storeId })
+		.first();
+	if (!row) return undefined;
+	return {
+		forceLimitN: Number(row.force_variation_limit_n),
+		weightIncrementG: Number(row.weight_rules?.incrementG ?? 5),
+		leadAllowed: Boolean(row.weight_rules?.leadAllowed),
+		tireAgeLimitYears: Number(row.tire_age_limit_years)
+	};
+}
