@@ -108,6 +108,10 @@ test('a technician claims the bay screen, runs a wheel with its record, and the 
 	await lead.keyboard.press('Shift+Digit1');
 	await lead.keyboard.press('ArrowDown');
 	await expect(lead.getByTestId('focus-job')).toHaveText(`Job #${job.number}`);
+	// → selects the wheel: its record is there for the lead, in the store's units.
+	await lead.keyboard.press('ArrowRight');
+	await expect(lead.getByTestId('wheel-record')).toContainText('7 /32 in');
+	await expect(lead.getByTestId('wheel-record')).toContainText('2319');
 	await bay.locator('h1').click();
 	await bay.keyboard.press('f');
 	await expect(lead.locator(`[data-testid="focus-wheels"] [data-wheel="${first.id}"]`)).toHaveAttribute(

@@ -133,6 +133,8 @@ type Timer = ReturnType<typeof setTimeout>;
 
 export class Board {
 	connection = $state<ConnectionState>('connecting');
+	/** The newest event this screen applied: its type and the wheels it carried (a record saved, a photo added…). */
+	lastEvent = $state<{ id: number; type: string; wheelIds: number[] } | null>(null);
 	/** The last thing that went wrong, for the screen to say in words; cleared by the next action or `dismiss()`. */
 	notice = $state<Notice | null>(null);
 
@@ -327,6 +329,7 @@ export class Board {
 				// Skipping a change we cannot read would leave a hole the cursor then hides; start over instead.
 				if (!parsed.success) return void this.#resync();
 				if (this.#confirmed) this.#setConfirmed(applyEvent(this.#confirmed, parsed.data as unknown as FloorEvent));
+				this.lastEvent = { id: parsed.data.id, type: parsed.data.type, wheelIds: parsed.data.wheels.map((w) => w.id) };
 				return;
 			}
 			case 'ready':
