@@ -1,7 +1,7 @@
 import { defineConfig } from '@playwright/test';
 
 // End-to-end tests run against the built app (`node build`) and the tests' own PostgreSQL cluster, in Debian's
-// Chromium: Playwright never downloads a browser here. `npm test` sets DATABASE_URL and AUTH_SECRET.
+// Chromium: Playwright never downloads a browser here. `npm test` sets DATABASE_URL, AUTH_SECRET and the S3_* settings.
 const port = Number(process.env.E2E_PORT ?? 3100);
 const baseURL = `http://127.0.0.1:${port}`;
 
@@ -47,7 +47,16 @@ export default defineConfig({
 			PORT: String(port),
 			ORIGIN: baseURL,
 			AUTH_SECRET: process.env.AUTH_SECRET ?? 'lugline-test-secret-not-for-production-000000',
-			DATABASE_URL: process.env.DATABASE_URL ?? 'postgres://postgres@127.0.0.1:54339/lugline_test'
+			DATABASE_URL: process.env.DATABASE_URL ?? 'postgres://postgres@127.0.0.1:54339/lugline_test',
+			// Photos: the tests' S3 fake, which `npm test` starts (scripts/s3-fake.mjs --test).
+			S3_ENDPOINT: process.env.S3_ENDPOINT ?? 'http://127.0.0.1:54359',
+			S3_REGION: process.env.S3_REGION ?? 'us-east-1',
+			S3_BUCKET: process.env.S3_BUCKET ?? 'lugline-photos',
+			S3_ACCESS_KEY_ID: process.env.S3_ACCESS_KEY_ID ?? 'S3RVER',
+			S3_SECRET_ACCESS_KEY: process.env.S3_SECRET_ACCESS_KEY ?? 'S3RVER',
+			// A 10 MiB photo plus the multipart framing (adapter-node's default is 512 KB); see scripts/config.mjs.
+			BODY_SIZE_LIMIT: process.env.BODY_SIZE_LIMIT ?? String(10 * 1024 * 1024 + 64 * 1024),
+			AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true'
 		}
 	}
 });

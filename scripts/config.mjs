@@ -50,3 +50,64 @@ export function authSecret() {
 export const host = process.env.HOST ?? '127.0.0.1';
 export const port = Number(process.env.PORT ?? 3000);
 export const origin = process.env.ORIGIN ?? `http://${host}:${port}`;
+
+/**
+ * Photo storage: any S3-compatible object store. The defaults point at the local fake (s3rver) that `npm start`
+ * runs from `.data/s3`; set S3_ENDPOINT (and the rest) to use real storage, and `npm start` leaves the fake alone.
+ */
+export const localS3Endpoint = 'http://127.0.0.1:54349';
+export const s3 = {
+	endpoint: process.env.S3_ENDPOINT ?? localS3Endpoint,
+	region: process.env.S3_REGION ?? 'us-east-1',
+	bucket: process.env.S3_BUCKET ?? 'lugline-photos',
+	// s3rver only accepts this key pair.
+	accessKeyId: process.env.S3_ACCESS_KEY_ID ?? 'S3RVER',
+	secretAccessKey: process.env.S3_SECRET_ACCESS_KEY ?? 'S3RVER'
+};
+
+function portOf(endpoint) {
+	try {
+		return Number(new URL(endpoint).port || 54349);
+	} catch {
+		return NaN; // not a URL: the app's config check says so when it starts
+	}
+}
+
+/** The local S3 fakes: one for `npm start`, one that only the tests use (wiped at the start of each run). */
+export const s3Fakes = {
+	app: { name: 'app', port: portOf(s3.endpoint), dir: join(dataDir, 's3'), fresh: false },
+	test: {
+		name: 'test',
+		port: Number(process.env.LUGLINE_TEST_S3_PORT ?? 54359),
+		dir: join(dataDir, 's3-test'),
+		fresh: true
+	}
+};
+
+/** The S3_* variables the app reads, for a fake on 127.0.0.1:<port>. */
+export function fakeS3Env(fake) {
+	return {
+		S3_ENDPOINT: `http://127.0.0.1:${fake.port}`,
+		S3_REGION: s3.region,
+		S3_BUCKET: s3.bucket,
+		S3_ACCESS_KEY_ID: 'S3RVER',
+		S3_SECRET_ACCESS_KEY: 'S3RVER'
+	};
+}
+
+/** The S3_* variables for the app as configured (the local fake unless S3_ENDPOINT says otherwise). */
+export function s3Env() {
+	return {
+		S3_ENDPOINT: s3.endpoint,
+		S3_REGION: s3.region,
+		S3_BUCKET: s3.bucket,
+		S3_ACCESS_KEY_ID: s3.accessKeyId,
+		S3_SECRET_ACCESS_KEY: s3.secretAccessKey
+	};
+}
+
+/**
+ * adapter-node refuses request bodies over BODY_SIZE_LIMIT (512 KB by default). A photo may be 10 MiB
+ * (src/lib/server/photos.ts), so allow that plus room for the multipart framing and the `kind` field.
+ */
+export const bodySizeLimit = process.env.BODY_SIZE_LIMIT ?? String(10 * 1024 * 1024 + 64 * 1024);

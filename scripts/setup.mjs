@@ -227,6 +227,53 @@ export function ensureBuild({ force = false } = {}) {
 	writeFileSync(stamp, new Date().toISOString());
 }
 
+// ---------------------------------------------------------------- the local S3 fake
+
+/**
+ * Starts scripts/s3-fake.mjs (`fake` from config.mjs s3Fakes) as a child process and resolves once it says it is
+ * ready; exits the script with the fake's own message when it cannot start (a taken port, say). The fake stops
+ * when this process exits, however it exits.
+ */
+export function startS3Fake(fake) {
+	log(`starting the ${fake.name} S3 fake on 127.0.0.1:${fake.port} (${fake.dir})`);
+	const args = [join('scripts', 's3-fake.mjs'), ...(fake.name === 'test' ? ['--test'] : [])];
+	// The IPC channel is only there so the fake notices when this process dies without a signal.
+	const child = spawn(process.execPath, args, { cwd: root, stdio: ['ignore', 'pipe', 'pipe', 'ipc'] });
+	process.on('exit', () => child.kill('SIGTERM'));
+	return new Promise((resolve) => {
+		let ready = false;
+		let out = '';
+		let errors = '';
+		child.stderr.on('data', (d) => {
+			if (ready) process.stderr.write(`[s3-fake] ${d}`);
+			else errors += d;
+		});
+		child.stdout.on('data', (d) => {
+			if (ready) return;
+			out += d;
+			if (out.includes('s3 fake ready')) {
+				ready = true;
+				log(out.trim());
+				resolve(child);
+			}
+		});
+		child.once('exit', (code, signal) => {
+			if (!ready) fail(errors.trim() || `the S3 fake exited with ${code} before it was ready`);
+			else if (!signal && code !== 0) log(`the ${fake.name} S3 fake stopped (exit ${code}); photos cannot be stored`);
+		});
+	});
+}
+
+/** Stops a fake started by startS3Fake and waits until it has let go of its port. */
+export function stopS3Fake(child) {
+	return new Promise((done) => {
+		if (!child || child.exitCode !== null || child.signalCode !== null) return done();
+		child.once('exit', () => done());
+		child.kill('SIGTERM');
+		setTimeout(() => child.kill('SIGKILL'), 5000).unref();
+	});
+}
+
 /** Starts a long-running child and forwards Ctrl+C to it. */
 export function serve(command, args, env) {
 	const child = spawn(command, args, { stdio: 'inherit', cwd: root, env: { ...process.env, ...env } });

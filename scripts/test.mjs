@@ -1,11 +1,22 @@
 // `npm test`: the same set-up as `npm start` against the tests' own cluster and a fresh database,
-// then svelte-check, Vitest (unit + integration on the real PostgreSQL) and Playwright (Debian's Chromium).
+// then svelte-check, Vitest (unit + integration on the real PostgreSQL) and Playwright (Debian's Chromium). Photos go
+// to the tests' own S3 fake (.data/s3-test, port 54359), started empty before Vitest and stopped at the end.
 // Every suite runs even when an earlier one fails; the last line is `N passed, N failed` over all of them.
 import { spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
-import { clusters, dataDir, databaseUrl, root } from './config.mjs';
-import { ensureBuild, ensureChromium, ensureDatabase, ensureDependencies, knex, log, startCluster } from './setup.mjs';
+import { bodySizeLimit, clusters, dataDir, databaseUrl, fakeS3Env, root, s3Fakes } from './config.mjs';
+import {
+	ensureBuild,
+	ensureChromium,
+	ensureDatabase,
+	ensureDependencies,
+	knex,
+	log,
+	startCluster,
+	startS3Fake,
+	stopS3Fake
+} from './setup.mjs';
 
 const cluster = clusters.test;
 const testDatabaseUrl = databaseUrl(cluster);
@@ -26,7 +37,11 @@ const env = {
 	DATABASE_URL: testDatabaseUrl,
 	LUGLINE_TEST_PG_PORT: String(cluster.port),
 	AUTH_SECRET: process.env.AUTH_SECRET ?? 'lugline-test-secret-not-for-production-000000',
-	NODE_ENV: 'test'
+	NODE_ENV: 'test',
+	// Always the tests' fake, even when S3_ENDPOINT names real storage: the tests count the bucket's objects.
+	...fakeS3Env(s3Fakes.test),
+	BODY_SIZE_LIMIT: bodySizeLimit,
+	AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true'
 };
 const tally = [];
 
@@ -56,6 +71,7 @@ if (wants('check')) {
 
 // The integration tests start app instances from the build, so build before Vitest.
 if (wants('vitest') || wants('e2e')) ensureBuild();
+const s3Fake = wants('vitest') || wants('e2e') ? await startS3Fake(s3Fakes.test) : null;
 
 if (wants('vitest')) {
 	const out = join(resultsDir, 'vitest.json');
@@ -76,6 +92,8 @@ if (wants('e2e')) {
 	const failed = (stats?.unexpected ?? 0) + (status !== 0 && !stats?.unexpected ? 1 : 0);
 	tally.push({ suite: 'playwright', passed, failed });
 }
+
+await stopS3Fake(s3Fake);
 
 const passed = tally.reduce((n, t) => n + t.passed, 0);
 const failed = tally.reduce((n, t) => n + t.failed, 0);

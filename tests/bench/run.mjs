@@ -64,7 +64,11 @@ function startInstance(name, port) {
 			PORT: String(port),
 			ORIGIN: url,
 			AUTH_SECRET: authSecret,
-			DATABASE_URL: databaseUrl
+			DATABASE_URL: databaseUrl,
+			// As `npm start` runs the app (scripts/config.mjs): a 10 MiB photo plus the multipart framing. The benches
+			// upload no photos, so the S3_* settings are whatever the environment says (default: the local fake).
+			BODY_SIZE_LIMIT: process.env.BODY_SIZE_LIMIT ?? String(10 * 1024 * 1024 + 64 * 1024),
+			AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true'
 		},
 		stdio: ['ignore', 'ignore', 'pipe']
 	});

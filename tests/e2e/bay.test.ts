@@ -3,6 +3,7 @@
 // values with clear messages and keeps every part of a record saved in parts. A store of its own per test.
 import { expect, test, type Browser, type Page } from '@playwright/test';
 import { hash } from '@node-rs/argon2';
+import sharp from 'sharp';
 import { createTestStore, newJob, type TestStore } from '../support/store';
 import { submitSignIn } from '../support/console';
 import { withClient } from '../support/database';
@@ -112,6 +113,18 @@ test('a technician claims the bay screen, runs a wheel with its record, and the 
 	await lead.keyboard.press('ArrowRight');
 	await expect(lead.getByTestId('wheel-record')).toContainText('7 /32 in');
 	await expect(lead.getByTestId('wheel-record')).toContainText('2319');
+
+	// A photo of the finished work, taken at the bay, is on the lead's screen too.
+	const png = await sharp({ create: { width: 64, height: 48, channels: 3, background: '#808080' } })
+		.png()
+		.toBuffer();
+	await bay.locator('[data-kind="finished"]').click();
+	await bay
+		.locator('input[type="file"][name="photo"]')
+		.setInputFiles({ name: 'wheel.png', mimeType: 'image/png', buffer: png });
+	await expect(bay.getByTestId('photo-status')).toContainText('Finished work photo added');
+	await expect(lead.locator('[data-testid="photos"] img')).toHaveCount(1, { timeout: 2_000 });
+
 	await bay.locator('h1').click();
 	await bay.keyboard.press('f');
 	await expect(lead.locator(`[data-testid="focus-wheels"] [data-wheel="${first.id}"]`)).toHaveAttribute(

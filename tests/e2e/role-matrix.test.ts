@@ -13,6 +13,9 @@ const examples: Record<string, string> = {
 	'/api/wheels/[id=id]': '/api/wheels/1',
 	'/api/vehicles/[id=id]': '/api/vehicles/1',
 	'/api/wheels/[id=id]/record': '/api/wheels/1/record',
+	// Roles allowed get 415 (the matrix posts JSON, not a photo); the demo store has no photos, so photo 1 is a 404.
+	'/api/wheels/[id=id]/photos': '/api/wheels/1/photos',
+	'/api/photos/[id=id]': '/api/photos/1',
 	'/api/bays/[code=code]/claim': '/api/bays/B1/claim',
 	'/(staff)/bay/[code=code]': '/bay/B1'
 };

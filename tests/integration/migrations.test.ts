@@ -17,6 +17,7 @@ const appTables = async () =>
 
 const expected = [
 	'audit',
+	'bay_claims',
 	'bays',
 	'customer_vehicles',
 	'customers',

@@ -5,6 +5,15 @@ import { testDatabaseUrl } from './database';
 
 export const testSecret = process.env.AUTH_SECRET ?? 'lugline-test-secret-not-for-production-000000';
 
+/** Photo storage for the instances: what `npm test` passes (its S3 fake), else the tests' fake's defaults. */
+export const testS3 = {
+	endpoint: process.env.S3_ENDPOINT ?? 'http://127.0.0.1:54359',
+	region: process.env.S3_REGION ?? 'us-east-1',
+	bucket: process.env.S3_BUCKET ?? 'lugline-photos',
+	accessKeyId: process.env.S3_ACCESS_KEY_ID ?? 'S3RVER',
+	secretAccessKey: process.env.S3_SECRET_ACCESS_KEY ?? 'S3RVER'
+};
+
 export interface Instance {
 	url: string;
 	port: number;
@@ -34,7 +43,15 @@ export async function startInstances(ports: number[]): Promise<Instance[]> {
 				PORT: String(port),
 				ORIGIN: url,
 				AUTH_SECRET: testSecret,
-				DATABASE_URL: testDatabaseUrl
+				DATABASE_URL: testDatabaseUrl,
+				S3_ENDPOINT: testS3.endpoint,
+				S3_REGION: testS3.region,
+				S3_BUCKET: testS3.bucket,
+				S3_ACCESS_KEY_ID: testS3.accessKeyId,
+				S3_SECRET_ACCESS_KEY: testS3.secretAccessKey,
+				// A 10 MiB photo plus the multipart framing (adapter-node's default is 512 KB); see scripts/config.mjs.
+				BODY_SIZE_LIMIT: process.env.BODY_SIZE_LIMIT ?? String(10 * 1024 * 1024 + 64 * 1024),
+				AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true'
 			},
 			stdio: ['ignore', 'ignore', 'pipe']
 		});

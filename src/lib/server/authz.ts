@@ -45,6 +45,10 @@ export const authorisation: Record<string, Rule> = {
 	'/api/wheels/move': { kind: 'api', methods: { POST: leadsOnly } },
 	// Finer rules inside (a technician only for wheels of their bay): src/lib/server/db/records.ts.
 	'/api/wheels/[id=id]/record': { kind: 'api', methods: { GET: 'staff', PUT: floorHands } },
+	// Every staff member of the store sees the photos; finer rules for adding them (a technician only for wheels of
+	// their bay or that they worked): src/lib/server/db/photos.ts.
+	'/api/wheels/[id=id]/photos': { kind: 'api', methods: { GET: 'staff', POST: floorHands } },
+	'/api/photos/[id=id]': { kind: 'api', methods: { GET: 'staff' } },
 	// Any signed-in screen may be claimed; the PIN decides who (src/lib/server/db/claims.ts).
 	'/api/bays/[code=code]/claim': { kind: 'api', methods: { POST: 'staff', DELETE: 'staff' } },
 	'/(staff)/bay/[code=code]': { kind: 'page', load: 'staff' }
