@@ -1,7 +1,7 @@
 import { defineConfig } from '@playwright/test';
 
 // End-to-end tests run against the built app (`node build`) and the tests' own PostgreSQL cluster, in Debian's
-// Chromium: Playwright never downloads a browser here. `npm test` sets DATABASE_URL, AUTH_SECRET and the S3_* settings.
+// Chromium: Playwright never downloads a browser here. `npm test` sets DATABASE_URL, AUTH_SECRET, the S3_* and the SMTP_* settings.
 const port = Number(process.env.E2E_PORT ?? 3100);
 const baseURL = `http://127.0.0.1:${port}`;
 
@@ -54,6 +54,13 @@ export default defineConfig({
 			S3_BUCKET: process.env.S3_BUCKET ?? 'lugline-photos',
 			S3_ACCESS_KEY_ID: process.env.S3_ACCESS_KEY_ID ?? 'S3RVER',
 			S3_SECRET_ACCESS_KEY: process.env.S3_SECRET_ACCESS_KEY ?? 'S3RVER',
+			// Customer e-mail: always the tests' mail catcher on loopback, which `npm test` starts
+			// (scripts/mail-catcher.mjs --test), whatever SMTP_HOST says: tests never mail anyone.
+			SMTP_HOST: '127.0.0.1',
+			SMTP_PORT: process.env.LUGLINE_TEST_SMTP_PORT ?? '54379',
+			SMTP_USER: '',
+			SMTP_PASSWORD: '',
+			SMTP_SECURE: 'false',
 			// A 10 MiB photo plus the multipart framing (adapter-node's default is 512 KB); see scripts/config.mjs.
 			BODY_SIZE_LIMIT: process.env.BODY_SIZE_LIMIT ?? String(10 * 1024 * 1024 + 64 * 1024),
 			AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true'

@@ -111,3 +111,64 @@ export function s3Env() {
  * (src/lib/server/photos.ts), so allow that plus room for the multipart framing and the `kind` field.
  */
 export const bodySizeLimit = process.env.BODY_SIZE_LIMIT ?? String(10 * 1024 * 1024 + 64 * 1024);
+
+/**
+ * Customer e-mail: the app sends real SMTP (nodemailer). The defaults point at the local catcher that `npm start`
+ * runs (scripts/mail-catcher.mjs, messages kept in .data/mail); set SMTP_HOST (and the rest) to use a real mail
+ * service, and `npm start` leaves the catcher alone.
+ */
+export const localSmtpHost = '127.0.0.1';
+export const localSmtpPort = 54369;
+export const smtp = {
+	host: process.env.SMTP_HOST ?? localSmtpHost,
+	port: Number(process.env.SMTP_PORT ?? localSmtpPort),
+	// Empty: no authentication (the catcher takes none).
+	user: process.env.SMTP_USER ?? '',
+	password: process.env.SMTP_PASSWORD ?? '',
+	secure: process.env.SMTP_SECURE ?? 'false',
+	from: process.env.MAIL_FROM ?? 'Lugline (demo) <notices@demo.lugline.test>'
+};
+
+/** Whether the app's mail goes to the local catcher (SMTP_HOST at its default), so `npm start` should run one. */
+export const smtpIsLocal = smtp.host === localSmtpHost;
+
+/** The local SMTP catchers: one for `npm start`, one that only the tests use (wiped at the start of each run). */
+export const mailCatchers = {
+	app: { name: 'app', port: smtp.port, dir: join(dataDir, 'mail'), fresh: false },
+	test: {
+		name: 'test',
+		port: Number(process.env.LUGLINE_TEST_SMTP_PORT ?? 54379),
+		dir: join(dataDir, 'mail-test'),
+		fresh: true
+	}
+};
+
+/** The SMTP_* / MAIL_* variables the app reads, as configured (the local catcher unless SMTP_HOST says otherwise). */
+export function smtpEnv() {
+	return {
+		SMTP_HOST: smtp.host,
+		SMTP_PORT: String(smtp.port),
+		SMTP_USER: smtp.user,
+		SMTP_PASSWORD: smtp.password,
+		SMTP_SECURE: smtp.secure,
+		MAIL_FROM: smtp.from,
+		// Only where the local catcher keeps what it receives; /manage/outbox says so.
+		...(smtpIsLocal ? { MAIL_CAPTURE_DIR: mailCatchers.app.dir } : {})
+		// The sender loop's settings (MAIL_POLL_MS, MAIL_BATCH, MAIL_MAX_ATTEMPTS, MAIL_RETRY_BASE_MS,
+		// MAIL_RETRY_MAX_MS) are read only by the app: their defaults are in src/lib/server/config.ts, and a value set
+		// in the environment reaches the app unchanged.
+	};
+}
+
+/** The variables for an app that sends to a catcher on 127.0.0.1:<port> (the tests'), without credentials. */
+export function catcherSmtpEnv(catcher) {
+	return {
+		SMTP_HOST: localSmtpHost,
+		SMTP_PORT: String(catcher.port),
+		SMTP_USER: '',
+		SMTP_PASSWORD: '',
+		SMTP_SECURE: 'false',
+		MAIL_FROM: smtp.from,
+		MAIL_CAPTURE_DIR: catcher.dir
+	};
+}

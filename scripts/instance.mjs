@@ -3,7 +3,7 @@
 // the database and builds); then open http://127.0.0.1:3000 and http://127.0.0.1:3001 side by side.
 import { existsSync } from 'node:fs';
 import { join } from 'node:path';
-import { appDatabaseUrl, authSecret, bodySizeLimit, clusters, host, root, s3Env } from './config.mjs';
+import { appDatabaseUrl, authSecret, bodySizeLimit, clusters, host, root, s3Env, smtpEnv } from './config.mjs';
 import { fail, log, serve, startCluster } from './setup.mjs';
 
 const flag = process.argv.indexOf('--port');
@@ -13,7 +13,7 @@ if (!existsSync(join(root, 'build', 'index.js'))) fail('There is no build yet: r
 if (!process.env.DATABASE_URL) await startCluster(clusters.app);
 
 const origin = process.env.ORIGIN_INSTANCE ?? `http://${host}:${port}`;
-log(`second instance at ${origin} (same database, photo storage and AUTH_SECRET; no migrations run here)`);
+log(`second instance at ${origin} (same database, photo storage, mail and AUTH_SECRET; no migrations run here)`);
 serve(process.execPath, ['build'], {
 	HOST: host,
 	PORT: String(port),
@@ -22,6 +22,9 @@ serve(process.execPath, ['build'], {
 	DATABASE_URL: appDatabaseUrl(),
 	// The same photo storage as `npm start` (its local S3 fake, unless S3_ENDPOINT names other storage).
 	...s3Env(),
+	// The same mail settings (the catcher `npm start` runs, unless SMTP_HOST names a mail service); either instance
+	// may send a notice, never both.
+	...smtpEnv(),
 	BODY_SIZE_LIMIT: bodySizeLimit,
 	AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true'
 });

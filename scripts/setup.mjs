@@ -155,7 +155,9 @@ export async function startCluster(cluster) {
 	if (clusterRunning(cluster)) {
 		const pid = readFileSync(join(data, 'postmaster.pid'), 'utf8').split('\n');
 		if (Number(pid[3]) !== cluster.port) {
-			fail(`The ${cluster.name} cluster is already running on port ${pid[3]}, not ${cluster.port}. Stop it with npm run db:stop.`);
+			fail(
+				`The ${cluster.name} cluster is already running on port ${pid[3]}, not ${cluster.port}. Stop it with npm run db:stop.`
+			);
 		}
 		return;
 	}
@@ -167,7 +169,18 @@ export async function startCluster(cluster) {
 	}
 	log(`starting the ${cluster.name} PostgreSQL cluster on 127.0.0.1:${cluster.port}`);
 	const options = `-p ${cluster.port} -k ${socketDir} -c listen_addresses=127.0.0.1`;
-	const started = asPostgres(join(bin, 'pg_ctl'), ['-D', data, '-o', options, '-l', logFile, '-w', '-t', '60', 'start']);
+	const started = asPostgres(join(bin, 'pg_ctl'), [
+		'-D',
+		data,
+		'-o',
+		options,
+		'-l',
+		logFile,
+		'-w',
+		'-t',
+		'60',
+		'start'
+	]);
 	if (started.status !== 0) fail(`PostgreSQL did not start:\n${started.out}\nSee ${logFile}`);
 }
 
@@ -200,9 +213,13 @@ export async function ensureDatabase(cluster, database, { fresh = false } = {}) 
 
 /** Runs a Knex CLI command (TypeScript knexfile through tsx) against one database. */
 export function knex(args, databaseUrlValue, env = {}) {
-	run(process.execPath, ['--import', 'tsx', join('node_modules', 'knex', 'bin', 'cli.js'), ...args, '--knexfile', 'knexfile.ts'], {
-		env: { ...process.env, DATABASE_URL: databaseUrlValue, ...env }
-	});
+	run(
+		process.execPath,
+		['--import', 'tsx', join('node_modules', 'knex', 'bin', 'cli.js'), ...args, '--knexfile', 'knexfile.ts'],
+		{
+			env: { ...process.env, DATABASE_URL: databaseUrlValue, ...env }
+		}
+	);
 }
 
 // ---------------------------------------------------------------- the build
@@ -274,6 +291,48 @@ export function stopS3Fake(child) {
 	});
 }
 
+// ---------------------------------------------------------------- the local SMTP catcher
+
+/**
+ * Starts scripts/mail-catcher.mjs (`catcher` from config.mjs mailCatchers) as a child process, like startS3Fake:
+ * resolves once it says it is ready, exits the script with its own message when it cannot start, and stops it when
+ * this process exits, however it exits.
+ */
+export function startMailCatcher(catcher) {
+	log(`starting the ${catcher.name} mail catcher on 127.0.0.1:${catcher.port} (${catcher.dir})`);
+	const args = [join('scripts', 'mail-catcher.mjs'), ...(catcher.name === 'test' ? ['--test'] : [])];
+	// The IPC channel is only there so the catcher notices when this process dies without a signal.
+	const child = spawn(process.execPath, args, { cwd: root, stdio: ['ignore', 'pipe', 'pipe', 'ipc'] });
+	process.on('exit', () => child.kill('SIGTERM'));
+	return new Promise((resolve) => {
+		let ready = false;
+		let out = '';
+		let errors = '';
+		child.stderr.on('data', (d) => {
+			if (ready) process.stderr.write(`[mail-catcher] ${d}`);
+			else errors += d;
+		});
+		child.stdout.on('data', (d) => {
+			// Once ready it prints one line per caught message; the app's outbox page shows the same, so stay quiet.
+			if (ready) return;
+			out += d;
+			if (out.includes('mail catcher ready')) {
+				ready = true;
+				log(out.trim());
+				resolve(child);
+			}
+		});
+		child.once('exit', (code, signal) => {
+			if (!ready) fail(errors.trim() || `the mail catcher exited with ${code} before it was ready`);
+			else if (!signal && code !== 0)
+				log(`the ${catcher.name} mail catcher stopped (exit ${code}); notices wait in the outbox`);
+		});
+	});
+}
+
+/** Stops a catcher started by startMailCatcher and waits until it has let go of its port. */
+export const stopMailCatcher = stopS3Fake;
+
 /** Starts a long-running child and forwards Ctrl+C to it. */
 export function serve(command, args, env) {
 	const child = spawn(command, args, { stdio: 'inherit', cwd: root, env: { ...process.env, ...env } });
@@ -283,4 +342,3 @@ export function serve(command, args, env) {
 	child.on('exit', (code, signal) => process.exit(signal ? 0 : (code ?? 0)));
 	return child;
 }
-

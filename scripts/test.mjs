@@ -1,11 +1,22 @@
 // `npm test`: the same set-up as `npm start` against the tests' own cluster and a fresh database,
 // then svelte-check, Vitest (unit + integration on the real PostgreSQL) and Playwright (Debian's Chromium). Photos go
-// to the tests' own S3 fake (.data/s3-test, port 54359), started empty before Vitest and stopped at the end.
+// to the tests' own S3 fake (.data/s3-test, port 54359) and customer e-mail to the tests' own mail catcher
+// (.data/mail-test, port 54379), both started empty before Vitest and stopped at the end.
 // Every suite runs even when an earlier one fails; the last line is `N passed, N failed` over all of them.
 import { spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
-import { bodySizeLimit, clusters, dataDir, databaseUrl, fakeS3Env, root, s3Fakes } from './config.mjs';
+import {
+	bodySizeLimit,
+	catcherSmtpEnv,
+	clusters,
+	dataDir,
+	databaseUrl,
+	fakeS3Env,
+	mailCatchers,
+	root,
+	s3Fakes
+} from './config.mjs';
 import {
 	ensureBuild,
 	ensureChromium,
@@ -14,7 +25,9 @@ import {
 	knex,
 	log,
 	startCluster,
+	startMailCatcher,
 	startS3Fake,
+	stopMailCatcher,
 	stopS3Fake
 } from './setup.mjs';
 
@@ -40,6 +53,8 @@ const env = {
 	NODE_ENV: 'test',
 	// Always the tests' fake, even when S3_ENDPOINT names real storage: the tests count the bucket's objects.
 	...fakeS3Env(s3Fakes.test),
+	// Always the tests' catcher, even when SMTP_HOST names a real mail service: tests must never mail anyone.
+	...catcherSmtpEnv(mailCatchers.test),
 	BODY_SIZE_LIMIT: bodySizeLimit,
 	AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true'
 };
@@ -65,17 +80,29 @@ const wants = (suite) => only.length === 0 || only.includes(suite);
 
 if (wants('check')) {
 	step('svelte-kit sync', node, [bin('@sveltejs/kit', 'svelte-kit.js'), 'sync']);
-	const status = step('svelte-check', node, [bin('svelte-check', 'bin/svelte-check'), '--tsconfig', './tsconfig.json', '--fail-on-warnings']);
+	const status = step('svelte-check', node, [
+		bin('svelte-check', 'bin/svelte-check'),
+		'--tsconfig',
+		'./tsconfig.json',
+		'--fail-on-warnings'
+	]);
 	tally.push({ suite: 'svelte-check', passed: status === 0 ? 1 : 0, failed: status === 0 ? 0 : 1 });
 }
 
 // The integration tests start app instances from the build, so build before Vitest.
 if (wants('vitest') || wants('e2e')) ensureBuild();
 const s3Fake = wants('vitest') || wants('e2e') ? await startS3Fake(s3Fakes.test) : null;
+const mailCatcher = wants('vitest') || wants('e2e') ? await startMailCatcher(mailCatchers.test) : null;
 
 if (wants('vitest')) {
 	const out = join(resultsDir, 'vitest.json');
-	const status = step('vitest', node, [bin('vitest', 'vitest.mjs'), 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${out}`]);
+	const status = step('vitest', node, [
+		bin('vitest', 'vitest.mjs'),
+		'run',
+		'--reporter=default',
+		'--reporter=json',
+		`--outputFile.json=${out}`
+	]);
 	const report = readJson(out);
 	const passed = report?.numPassedTests ?? 0;
 	const failed = (report?.numFailedTests ?? 0) + (status !== 0 && !report?.numFailedTests ? 1 : 0);
@@ -94,6 +121,7 @@ if (wants('e2e')) {
 }
 
 await stopS3Fake(s3Fake);
+await stopMailCatcher(mailCatcher);
 
 const passed = tally.reduce((n, t) => n + t.passed, 0);
 const failed = tally.reduce((n, t) => n + t.failed, 0);

@@ -1,6 +1,6 @@
 // Authentication once (Auth.js), then authorisation for every page load, form action and API route from the one
 // table in $lib/server/authz. Nothing reaches a route without passing both.
-import { error, json, redirect, type Handle, type HandleServerError } from '@sveltejs/kit';
+import { error, json, redirect, type Handle, type HandleServerError, type ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { apiSession, authHandle, type StaffSession } from '$lib/server/auth';
 import { allows, ruleFor } from '$lib/server/authz';
@@ -8,6 +8,7 @@ import { close as closeDatabase, isDatabaseUnavailable } from '$lib/server/db';
 import * as claims from '$lib/server/db/claims';
 import { CLAIM_HEADER } from '$lib/schemas/bay';
 import { stop as stopListener } from '$lib/server/live/listener';
+import * as mailSender from '$lib/server/mail/sender';
 
 const isApi = (pathname: string) => pathname.startsWith('/api/');
 
@@ -99,9 +100,16 @@ const authorise: Handle = async ({ event, resolve }) => {
 
 export const handle = sequence(authHandle, authorise);
 
-// adapter-node emits this once the HTTP server has closed (Ctrl+C, SIGTERM): release the database connections now.
+// Once per instance, before the first request: the outbox sender loop (src/lib/server/mail/sender.ts). It only
+// schedules its first pass, so a database or mail server that is down does not stop the app from starting.
+export const init: ServerInit = () => {
+	mailSender.start();
+};
+
+// adapter-node emits this once the HTTP server has closed (Ctrl+C, SIGTERM): stop the sender (it finishes the
+// notice in hand) and the listener, then release the database connections.
 process.on('sveltekit:shutdown', () => {
-	void stopListener().finally(() => closeDatabase());
+	void Promise.allSettled([stopListener(), mailSender.stop()]).finally(() => closeDatabase());
 });
 
 export const handleError: HandleServerError = ({ error: e, status, message }) => {

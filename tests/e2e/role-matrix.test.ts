@@ -10,6 +10,9 @@ import { account } from '../support/accounts';
 const examples: Record<string, string> = {
 	// Demo job 1 and wheel 1 exist in the seeded store of every role in this matrix.
 	'/api/jobs/[id=id]': '/api/jobs/1',
+	// Roles allowed get 202 (a summary queued for the tests' mail catcher) or 422 (job 1 not done, no address, or a
+	// summary already waiting); never 401/403.
+	'/api/jobs/[id=id]/summary': '/api/jobs/1/summary',
 	'/api/wheels/[id=id]': '/api/wheels/1',
 	'/api/vehicles/[id=id]': '/api/vehicles/1',
 	'/api/wheels/[id=id]/record': '/api/wheels/1/record',
@@ -17,7 +20,9 @@ const examples: Record<string, string> = {
 	'/api/wheels/[id=id]/photos': '/api/wheels/1/photos',
 	'/api/photos/[id=id]': '/api/photos/1',
 	'/api/bays/[code=code]/claim': '/api/bays/B1/claim',
-	'/(staff)/bay/[code=code]': '/bay/B1'
+	'/(staff)/bay/[code=code]': '/bay/B1',
+	// Vehicle 1 is the seed's first record; a manager's empty save is refused (400) and changes nothing.
+	'/(staff)/manage/vehicles/[id=id]': '/manage/vehicles/1'
 };
 
 function urlFor(routeId: string): string {

@@ -14,6 +14,12 @@ export const testS3 = {
 	secretAccessKey: process.env.S3_SECRET_ACCESS_KEY ?? 'S3RVER'
 };
 
+/**
+ * Customer e-mail for the instances: always a catcher on loopback, never a real mail service whatever SMTP_HOST
+ * says (tests must not mail anyone): the tests' catcher that `npm test` starts, unless a test passes its own port.
+ */
+export const testSmtpPort = Number(process.env.LUGLINE_TEST_SMTP_PORT ?? 54379);
+
 export interface Instance {
 	url: string;
 	port: number;
@@ -33,7 +39,8 @@ async function healthy(url: string, deadline: number): Promise<void> {
 	throw new Error(`${url} did not become healthy`);
 }
 
-export async function startInstances(ports: number[]): Promise<Instance[]> {
+/** Starts instances from the build; `env` adds or overrides settings (a test's own catcher port, a faster sender). */
+export async function startInstances(ports: number[], env: Record<string, string> = {}): Promise<Instance[]> {
 	const instances = ports.map((port) => {
 		const url = `http://127.0.0.1:${port}`;
 		const child = spawn(process.execPath, ['build'], {
@@ -49,9 +56,15 @@ export async function startInstances(ports: number[]): Promise<Instance[]> {
 				S3_BUCKET: testS3.bucket,
 				S3_ACCESS_KEY_ID: testS3.accessKeyId,
 				S3_SECRET_ACCESS_KEY: testS3.secretAccessKey,
+				SMTP_HOST: '127.0.0.1',
+				SMTP_PORT: String(testSmtpPort),
+				SMTP_USER: '',
+				SMTP_PASSWORD: '',
+				SMTP_SECURE: 'false',
 				// A 10 MiB photo plus the multipart framing (adapter-node's default is 512 KB); see scripts/config.mjs.
 				BODY_SIZE_LIMIT: process.env.BODY_SIZE_LIMIT ?? String(10 * 1024 * 1024 + 64 * 1024),
-				AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true'
+				AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true',
+				...env
 			},
 			stdio: ['ignore', 'ignore', 'pipe']
 		});

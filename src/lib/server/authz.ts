@@ -31,6 +31,18 @@ export const authorisation: Record<string, Rule> = {
 	'/signout': { kind: 'page', load: 'staff', actions: { default: 'staff' } },
 	'/(staff)': { kind: 'page', load: 'staff' },
 	'/(staff)/manage': { kind: 'page', load: managers },
+	// Vehicle data (shared by the chain's stores): list and search, edit one record, import a CSV file; exports.
+	'/(staff)/manage/vehicles': { kind: 'page', load: managers },
+	'/(staff)/manage/vehicles/[id=id]': { kind: 'page', load: managers, actions: { save: managers } },
+	'/(staff)/manage/vehicles/import': {
+		kind: 'page',
+		load: managers,
+		actions: { preview: managers, import: managers }
+	},
+	'/api/export/vehicles.csv': { kind: 'api', methods: { GET: managers } },
+	'/api/export/jobs.csv': { kind: 'api', methods: { GET: managers } },
+	'/api/export/wheel-records.csv': { kind: 'api', methods: { GET: managers } },
+	'/(staff)/manage/outbox': { kind: 'page', load: managers },
 	'/api/health': { kind: 'api', methods: { GET: 'public' } },
 	'/api/me': { kind: 'api', methods: { GET: 'staff' } },
 	'/api/board': { kind: 'api', methods: { GET: 'staff' } },
@@ -40,6 +52,8 @@ export const authorisation: Record<string, Rule> = {
 	'/api/events': { kind: 'api', methods: { POST: 'staff' } },
 	'/api/jobs': { kind: 'api', methods: { POST: counter } },
 	'/api/jobs/[id=id]': { kind: 'api', methods: { GET: 'staff', PATCH: counter } },
+	// A service-summary e-mail to the job's customer: the counter's call (src/lib/server/mail/outbox.ts).
+	'/api/jobs/[id=id]/summary': { kind: 'api', methods: { POST: counter } },
 	// Finer rules inside (a technician only in their own bay): src/lib/server/db/wheels.ts.
 	'/api/wheels/[id=id]': { kind: 'api', methods: { PATCH: floorHands } },
 	'/api/wheels/move': { kind: 'api', methods: { POST: leadsOnly } },

@@ -5,6 +5,7 @@ import type { Knex } from 'knex';
 import type { JobState, PatchWheel, WheelState, WheelView } from '$lib/schemas/floor';
 import { Forbidden, NotAllowedNow, NotFound, VersionConflict } from '../errors';
 import * as events from '../live/events';
+import * as outbox from '../mail/outbox';
 import { leads, type Actor } from './actor';
 import * as audit from './audit';
 import { lockBays, move, renumber, type BayRow } from './queues';
@@ -123,6 +124,9 @@ async function setState(
 		if (wheel.bay_id !== null) for (const w of await renumber(trx, wheel.bay_id)) changed.add(w);
 
 		const jobChanged = await settleJob(trx, job.id, job.state);
+		// The job's last wheel is done: its customer notices are written in this transaction, so they exist exactly
+		// when the finish commits (src/lib/server/mail/outbox.ts).
+		if (what === 'finish' && jobChanged) await outbox.jobFinished(trx, actor, job.id);
 		await audit.record(trx, actor, what, 'wheel', id, { job: job.number, bay: bay?.code ?? null });
 		const views = await wheelViews(trx, [...changed]);
 		const eventId = await events.append(trx, {
