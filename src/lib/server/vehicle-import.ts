@@ -298,7 +298,7 @@ const labelOf = (v: { make: string; model: string; trim: string; year_from: numb
 const sha256 = (bytes: Uint8Array) => createHash('sha256').update(bytes).digest('hex');
 const tokenOf = (hash: string, c: imports.Counts) => `${hash}.${c.added}.${c.changed}.${c.unchanged}`;
 
-function describe(upload: Upload, read: ReadResult, plan: imports.Plan): Preview {
+function previewOf(upload: Upload, read: ReadResult, plan: imports.Plan): Preview {
 	const counts = imports.countsOf(plan);
 	const changedFields: Preview['changedFields'] = {};
 	for (const change of plan.changed)
@@ -328,7 +328,7 @@ function describe(upload: Upload, read: ReadResult, plan: imports.Plan): Preview
 export async function preview(upload: Upload): Promise<Preview> {
 	const read = readVehicleCsv(upload.bytes);
 	const plan = read.rows.length ? await imports.plan(read.rows) : { added: [], changed: [], unchanged: 0 };
-	return describe(upload, read, plan);
+	return previewOf(upload, read, plan);
 }
 
 export type ImportResult =
@@ -348,15 +348,15 @@ export async function commit(actor: Actor, upload: Upload, token: string): Promi
 		return {
 			ok: false,
 			status: 400,
-			message: `Nothing was imported: ${read.issues.length === 1 ? 'one row has a problem' : `${read.issues.length} problems`} to fix first.`,
-			preview: describe(upload, read, plan)
+			message: `Nothing was imported: the file has ${read.issues.length === 1 ? 'a problem' : `${read.issues.length} problems`} to fix first.`,
+			preview: previewOf(upload, read, plan)
 		};
 	}
 	const fresh = async (message: string, plan?: imports.Plan): Promise<ImportResult> => ({
 		ok: false,
 		status: 409,
 		message,
-		preview: describe(upload, read, plan ?? (await imports.plan(read.rows)))
+		preview: previewOf(upload, read, plan ?? (await imports.plan(read.rows)))
 	});
 	if (hash !== sha256(upload.bytes) || expected.length !== 3 || expected.some((n) => !Number.isInteger(n)))
 		return fresh(
