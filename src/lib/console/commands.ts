@@ -19,6 +19,8 @@ export interface ConsoleContext {
 	openIntake(): void;
 	openCalculators(): void;
 	say(message: string): void;
+	/** Leaves the console for another page of the app (the manager's pages). */
+	navigate(path: string): void;
 }
 
 export interface Command {
@@ -38,6 +40,23 @@ export interface Command {
 const everyone = ['writer', 'lead', 'tech', 'manager'] as const;
 const leads = ['lead', 'manager'] as const;
 const hands = ['lead', 'tech', 'manager'] as const;
+const managers = ['manager'] as const;
+
+/**
+ * A manager's way to a manage page: from the palette, the status line (with nothing selected) or Alt+Shift+digit,
+ * which clashes with no floor key (hotkeys-js matches modifiers exactly, so Shift+digit still selects a bay).
+ */
+function manage(id: string, path: string, title: string, label: string, keywords: string[], digit: number): Command {
+	return {
+		id: `manage-${id}`,
+		title,
+		label,
+		keywords: ['manage', 'manager', ...keywords],
+		keys: [`alt+shift+${digit}`],
+		roles: managers,
+		run: (ctx) => ctx.navigate(path)
+	};
+}
 
 function step(ctx: ConsoleContext, by: number) {
 	const jobs = ctx.order();
@@ -225,7 +244,39 @@ export const commands: Command[] = [
 		keys: ['shift+/'],
 		roles: everyone,
 		run: (ctx) => ctx.toggleHelp()
-	}
+	},
+	manage(
+		'staff',
+		'/manage',
+		'Manage staff: people, roles, passwords and PINs',
+		'staff',
+		['staff', 'people', 'users', 'roles', 'pin', 'password'],
+		1
+	),
+	manage(
+		'bays',
+		'/manage/bays',
+		'Manage bays: add, rename, reorder, out of service',
+		'bays',
+		['bays', 'lanes', 'out of service'],
+		2
+	),
+	manage(
+		'services',
+		'/manage/services',
+		'Manage services and standard minutes',
+		'services',
+		['services', 'standard minutes', 'balance'],
+		3
+	),
+	manage(
+		'settings',
+		'/manage/settings',
+		'Store settings: units, targets, limits, notices, time zone',
+		'settings',
+		['settings', 'units', 'target', 'limits', 'time zone', 'notices'],
+		4
+	)
 ];
 
 export function commandsFor(role: Role): Command[] {

@@ -30,7 +30,26 @@ export const authorisation: Record<string, Rule> = {
 	'/signin': { kind: 'page', load: 'public', actions: { default: 'public' } },
 	'/signout': { kind: 'page', load: 'staff', actions: { default: 'staff' } },
 	'/(staff)': { kind: 'page', load: 'staff' },
-	'/(staff)/manage': { kind: 'page', load: managers },
+	// Staff, bays, services and store settings: each change a named form action (src/lib/server/db/{staff,bays,…}.ts).
+	'/(staff)/manage': {
+		kind: 'page',
+		load: managers,
+		actions: {
+			add: managers,
+			role: managers,
+			disable: managers,
+			enable: managers,
+			password: managers,
+			pin: managers
+		}
+	},
+	'/(staff)/manage/bays': {
+		kind: 'page',
+		load: managers,
+		actions: { add: managers, rename: managers, up: managers, down: managers, out: managers, in: managers }
+	},
+	'/(staff)/manage/services': { kind: 'page', load: managers, actions: { add: managers, save: managers } },
+	'/(staff)/manage/settings': { kind: 'page', load: managers, actions: { save: managers } },
 	// Vehicle data (shared by the chain's stores): list and search, edit one record, import a CSV file; exports.
 	'/(staff)/manage/vehicles': { kind: 'page', load: managers },
 	'/(staff)/manage/vehicles/[id=id]': { kind: 'page', load: managers, actions: { save: managers } },

@@ -1,0 +1,67 @@
+// How the manager's form actions answer: bad input is 400 with field errors and what was typed; a refused change
+// (stale version, not allowed now, gone) is a 4xx with a message a person can act on; nothing is saved in either case.
+import { fail, type ActionFailure } from '@sveltejs/kit';
+import type { z } from 'zod';
+import { isDatabaseUnavailable } from '$lib/server/db';
+import { NotAllowedNow, NotFound, VersionConflict } from '$lib/server/errors';
+import { fieldErrors, formValues } from '$lib/schemas/manage';
+
+export interface Refusal {
+	/** Which form (and row) the answer belongs to, so the page shows it in the right place. */
+	form: string;
+	id?: number;
+	values: Record<string, string>;
+	errors: Record<string, string>;
+	message: string;
+	/** The form was older than the stored row: the page shows the current values, not what was typed. */
+	stale?: boolean;
+}
+
+export type Outcome = { form: string; id?: number; done: string } | ActionFailure<Refusal>;
+
+/**
+ * Reads `fields` from the request, validates them with `schema`, then runs `work`; `onTaken` names the field a
+ * uniqueness refusal belongs to (e.g. the e-mail of a new person).
+ */
+export async function act<S extends z.ZodType>(
+	request: Request,
+	formName: string,
+	fields: readonly string[],
+	schema: S,
+	work: (input: z.infer<S>) => Promise<string>,
+	takenField?: string
+): Promise<Outcome> {
+	const form = await request.formData();
+	const values = formValues(form, fields);
+	const rowId = Number(values.id) || undefined;
+	const refuse = (status: number, message: string, errors: Record<string, string> = {}, stale = false) =>
+		fail(status, { form: formName, id: rowId, values: withoutSecrets(values), errors, message, stale });
+	const parsed = schema.safeParse(values);
+	if (!parsed.success) return refuse(400, 'Check the marked fields: nothing was saved.', fieldErrors(parsed.error));
+	try {
+		return { form: formName, id: rowId, done: await work(parsed.data) };
+	} catch (e) {
+		if (e instanceof VersionConflict)
+			return refuse(
+				409,
+				'Someone else changed this after you opened the page, so nothing was saved. The page now shows the current values; check them and try again.',
+				{},
+				true
+			);
+		if (e instanceof NotAllowedNow) {
+			if (e.code === 'email_taken' || e.code === 'code_taken')
+				return refuse(409, 'Check the marked fields: nothing was saved.', { [takenField ?? 'form']: e.message });
+			return refuse(409, e.message);
+		}
+		if (e instanceof NotFound) return refuse(404, e.message);
+		if (isDatabaseUnavailable(e))
+			return refuse(503, 'The database is not answering, so nothing was saved. Try again in a few seconds.');
+		throw e;
+	}
+}
+
+/** Passwords and PINs are never sent back to the page. */
+function withoutSecrets(values: Record<string, string>): Record<string, string> {
+	const { password: _p, pin: _n, ...rest } = values;
+	return rest;
+}
