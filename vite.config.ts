@@ -11,11 +11,13 @@ if (process.env.VITEST) {
 
 export default defineConfig({
 	plugins: [tailwindcss(), sveltekit()],
+	// The palette's vehicle worker is a module worker (`{ type: 'module' }`); the default 'iife' cannot split chunks.
+	worker: { format: 'es' },
 	test: {
 		// Integration tests share one real database, so files run one after another.
 		fileParallelism: false,
 		include: ['src/**/*.test.ts', 'tests/integration/**/*.test.ts'],
 		testTimeout: 20_000,
-		hookTimeout: 30_000,
+		hookTimeout: 30_000
 	}
 });

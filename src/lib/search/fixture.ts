@@ -5,6 +5,7 @@
  * mix has many sizes only a few vehicles take.
  */
 import type { SearchRecord } from './index';
+import type { VehicleEntry } from '$lib/schemas/vehicles';
 // The seeds' generator: the same sequence on every engine, defined once.
 import { mulberry32 as prng } from '../../../seeds/lib/prng';
 
@@ -162,11 +163,8 @@ function word(rand: () => number, syllables: number): string {
 	return w[0].toUpperCase() + w.slice(1);
 }
 
-/**
- * `count` noise records plus the anchors, spread through the set so neither the first nor the last position favours
- * them. Deterministic: the same count gives the same records, and a bigger count starts with the smaller one's noise.
- */
-export function inventedRecords(count: number, seed = 20_260_214): SearchRecord[] {
+/** The invented-noise generators, drawing from one seeded sequence. */
+function noise(seed: number) {
 	const rand = prng(seed);
 	const makes = Array.from({ length: 24 }, () => word(rand, 2 + Math.floor(rand() * 2)));
 	const models = makes.map(() => Array.from({ length: 8 }, () => word(rand, 2)));
@@ -197,7 +195,16 @@ export function inventedRecords(count: number, seed = 20_260_214): SearchRecord[
 		const line = `01${String(Math.floor(rand() * 100)).padStart(2, '0')}`;
 		return { text: `${area}-555-${line}`, digits: `${area}555${line}` };
 	};
+	const trim = () => pick(rand, TRIMS);
+	return { rand, size, vehicle, person, plate, phone, trim };
+}
 
+/**
+ * `count` noise records plus the anchors, spread through the set so neither the first nor the last position favours
+ * them. Deterministic: the same count gives the same records, and a bigger count starts with the smaller one's noise.
+ */
+export function inventedRecords(count: number, seed = 20_260_214): SearchRecord[] {
+	const { rand, size, vehicle, person, plate, phone, trim } = noise(seed);
 	const out: SearchRecord[] = [];
 	const every = Math.max(1, Math.floor(count / anchors.length));
 	let nextAnchor = 0;
@@ -211,7 +218,7 @@ export function inventedRecords(count: number, seed = 20_260_214): SearchRecord[
 			out.push({
 				id: `v${i}`,
 				kind: 'vehicle',
-				text: `${v.from}–${v.to} ${v.make} ${v.model} ${pick(rand, TRIMS)} ${s.text}`,
+				text: `${v.from}–${v.to} ${v.make} ${v.model} ${trim()} ${s.text}`,
 				aliases: [s.digits]
 			});
 		} else if (roll < 0.7) {
@@ -235,5 +242,42 @@ export function inventedRecords(count: number, seed = 20_260_214): SearchRecord[
 		}
 	}
 	while (nextAnchor < anchors.length) out.push(anchors[nextAnchor++]);
+	return out;
+}
+
+/** The vehicle anchors as GET /api/vehicles sends vehicles, with ids 1–6 (`vehicleAnchorIds` maps the fixture's ids). */
+export const vehicleAnchors: VehicleEntry[] = anchors
+	.filter((a) => a.kind === 'vehicle')
+	.map((a, i) => {
+		const words = a.text.split(' ');
+		return { id: i + 1, label: words.slice(0, -1).join(' '), sizes: words.slice(-1) };
+	});
+export const vehicleAnchorIds: Record<string, number> = Object.fromEntries(
+	anchors.filter((a) => a.kind === 'vehicle').map((a, i) => [a.id, i + 1])
+);
+
+/**
+ * `count` vehicles as GET /api/vehicles sends them (the browser benchmark serves these): the vehicle anchors spread
+ * through invented ones, a fifth of which have a different rear size. Deterministic, like `inventedRecords`.
+ */
+export function inventedVehicles(count: number, seed = 20_260_214): VehicleEntry[] {
+	const { rand, size, vehicle, trim } = noise(seed);
+	const out: VehicleEntry[] = [];
+	const every = Math.max(1, Math.floor(count / vehicleAnchors.length));
+	let nextAnchor = 0;
+	for (let i = 0; out.length < count; i++) {
+		if (i % every === Math.floor(every / 2) && nextAnchor < vehicleAnchors.length) {
+			out.push(vehicleAnchors[nextAnchor++]);
+			continue;
+		}
+		const v = vehicle();
+		const front = size().text;
+		const rear = rand() < 0.2 ? size().text : front;
+		out.push({
+			id: 100 + i,
+			label: `${v.from}–${v.to} ${v.make} ${v.model} ${trim()}`,
+			sizes: [...new Set([front, rear])]
+		});
+	}
 	return out;
 }
