@@ -22,7 +22,9 @@ const examples: Record<string, string> = {
 	'/api/bays/[code=code]/claim': '/api/bays/B1/claim',
 	'/(staff)/bay/[code=code]': '/bay/B1',
 	// Vehicle 1 is the seed's first record; a manager's empty save is refused (400) and changes nothing.
-	'/(staff)/manage/vehicles/[id=id]': '/manage/vehicles/1'
+	'/(staff)/manage/vehicles/[id=id]': '/manage/vehicles/1',
+	// A manager gets the day's throughput as CSV (200).
+	'/api/reports/[name]': '/api/reports/throughput?from=2026-12-01&to=2026-12-02'
 };
 
 function urlFor(routeId: string): string {

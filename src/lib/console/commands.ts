@@ -276,6 +276,14 @@ export const commands: Command[] = [
 		'settings',
 		['settings', 'units', 'target', 'limits', 'time zone', 'notices'],
 		4
+	),
+	manage(
+		'reports',
+		'/manage/reports',
+		'Reports: wheels per hour, pace, promises kept, waiting',
+		'reports',
+		['reports', 'throughput', 'pace', 'promises', 'waiting', 'csv'],
+		5
 	)
 ];
 

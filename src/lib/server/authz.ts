@@ -62,6 +62,9 @@ export const authorisation: Record<string, Rule> = {
 	'/api/export/jobs.csv': { kind: 'api', methods: { GET: managers } },
 	'/api/export/wheel-records.csv': { kind: 'api', methods: { GET: managers } },
 	'/(staff)/manage/outbox': { kind: 'page', load: managers },
+	// Reports (src/lib/server/db/reports.ts): the page and one CSV per report.
+	'/(staff)/manage/reports': { kind: 'page', load: managers },
+	'/api/reports/[name]': { kind: 'api', methods: { GET: managers } },
 	'/api/health': { kind: 'api', methods: { GET: 'public' } },
 	'/api/me': { kind: 'api', methods: { GET: 'staff' } },
 	'/api/board': { kind: 'api', methods: { GET: 'staff' } },
