@@ -244,45 +244,68 @@ export function ensureBuild({ force = false } = {}) {
 	writeFileSync(stamp, new Date().toISOString());
 }
 
-// ---------------------------------------------------------------- the local S3 fake
+// ---------------------------------------------------------------- the local S3 fake and SMTP catcher
 
 /**
- * Starts scripts/s3-fake.mjs (`fake` from config.mjs s3Fakes) as a child process and resolves once it says it is
- * ready; exits the script with the fake's own message when it cannot start (a taken port, say). The fake stops
- * when this process exits, however it exits.
+ * Starts one of our local stand-ins for a service (scripts/s3-fake.mjs, scripts/mail-catcher.mjs) as a child process
+ * and resolves once it prints its ready line; exits the script with the child's own message when it cannot start (a
+ * taken port, say). The child stops when this process exits, however it exits.
  */
-export function startS3Fake(fake) {
-	log(`starting the ${fake.name} S3 fake on 127.0.0.1:${fake.port} (${fake.dir})`);
-	const args = [join('scripts', 's3-fake.mjs'), ...(fake.name === 'test' ? ['--test'] : [])];
-	// The IPC channel is only there so the fake notices when this process dies without a signal.
+function startLocalService({ what, script, config, ready, stoppedNote }) {
+	log(`starting the ${config.name} ${what} on 127.0.0.1:${config.port} (${config.dir})`);
+	const args = [join('scripts', script), ...(config.name === 'test' ? ['--test'] : [])];
+	// The IPC channel is only there so the child notices when this process dies without a signal.
 	const child = spawn(process.execPath, args, { cwd: root, stdio: ['ignore', 'pipe', 'pipe', 'ipc'] });
 	process.on('exit', () => child.kill('SIGTERM'));
 	return new Promise((resolve) => {
-		let ready = false;
+		let started = false;
 		let out = '';
 		let errors = '';
 		child.stderr.on('data', (d) => {
-			if (ready) process.stderr.write(`[s3-fake] ${d}`);
+			if (started) process.stderr.write(`[${script.replace(/\.mjs$/, '')}] ${d}`);
 			else errors += d;
 		});
 		child.stdout.on('data', (d) => {
-			if (ready) return;
+			// Once ready the catcher prints a line per message; the outbox page shows the same, so stay quiet.
+			if (started) return;
 			out += d;
-			if (out.includes('s3 fake ready')) {
-				ready = true;
+			if (out.includes(ready)) {
+				started = true;
 				log(out.trim());
 				resolve(child);
 			}
 		});
 		child.once('exit', (code, signal) => {
-			if (!ready) fail(errors.trim() || `the S3 fake exited with ${code} before it was ready`);
-			else if (!signal && code !== 0) log(`the ${fake.name} S3 fake stopped (exit ${code}); photos cannot be stored`);
+			if (!started) fail(errors.trim() || `the ${what} exited with ${code} before it was ready`);
+			else if (!signal && code !== 0) log(`the ${config.name} ${what} stopped (exit ${code}); ${stoppedNote}`);
 		});
 	});
 }
 
-/** Stops a fake started by startS3Fake and waits until it has let go of its port. */
-export function stopS3Fake(child) {
+/** The photo store's local fake (`fake` from config.mjs s3Fakes). */
+export function startS3Fake(fake) {
+	return startLocalService({
+		what: 'S3 fake',
+		script: 's3-fake.mjs',
+		config: fake,
+		ready: 's3 fake ready',
+		stoppedNote: 'photos cannot be stored'
+	});
+}
+
+/** The mail catcher (`catcher` from config.mjs mailCatchers). */
+export function startMailCatcher(catcher) {
+	return startLocalService({
+		what: 'mail catcher',
+		script: 'mail-catcher.mjs',
+		config: catcher,
+		ready: 'mail catcher ready',
+		stoppedNote: 'notices wait in the outbox'
+	});
+}
+
+/** Stops a child started by startS3Fake or startMailCatcher and waits until it has let go of its port. */
+export function stopLocalService(child) {
 	return new Promise((done) => {
 		if (!child || child.exitCode !== null || child.signalCode !== null) return done();
 		child.once('exit', () => done());
@@ -290,48 +313,6 @@ export function stopS3Fake(child) {
 		setTimeout(() => child.kill('SIGKILL'), 5000).unref();
 	});
 }
-
-// ---------------------------------------------------------------- the local SMTP catcher
-
-/**
- * Starts scripts/mail-catcher.mjs (`catcher` from config.mjs mailCatchers) as a child process, like startS3Fake:
- * resolves once it says it is ready, exits the script with its own message when it cannot start, and stops it when
- * this process exits, however it exits.
- */
-export function startMailCatcher(catcher) {
-	log(`starting the ${catcher.name} mail catcher on 127.0.0.1:${catcher.port} (${catcher.dir})`);
-	const args = [join('scripts', 'mail-catcher.mjs'), ...(catcher.name === 'test' ? ['--test'] : [])];
-	// The IPC channel is only there so the catcher notices when this process dies without a signal.
-	const child = spawn(process.execPath, args, { cwd: root, stdio: ['ignore', 'pipe', 'pipe', 'ipc'] });
-	process.on('exit', () => child.kill('SIGTERM'));
-	return new Promise((resolve) => {
-		let ready = false;
-		let out = '';
-		let errors = '';
-		child.stderr.on('data', (d) => {
-			if (ready) process.stderr.write(`[mail-catcher] ${d}`);
-			else errors += d;
-		});
-		child.stdout.on('data', (d) => {
-			// Once ready it prints one line per caught message; the app's outbox page shows the same, so stay quiet.
-			if (ready) return;
-			out += d;
-			if (out.includes('mail catcher ready')) {
-				ready = true;
-				log(out.trim());
-				resolve(child);
-			}
-		});
-		child.once('exit', (code, signal) => {
-			if (!ready) fail(errors.trim() || `the mail catcher exited with ${code} before it was ready`);
-			else if (!signal && code !== 0)
-				log(`the ${catcher.name} mail catcher stopped (exit ${code}); notices wait in the outbox`);
-		});
-	});
-}
-
-/** Stops a catcher started by startMailCatcher and waits until it has let go of its port. */
-export const stopMailCatcher = stopS3Fake;
 
 /** Starts a long-running child and forwards Ctrl+C to it. */
 export function serve(command, args, env) {

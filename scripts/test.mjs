@@ -27,8 +27,7 @@ import {
 	startCluster,
 	startMailCatcher,
 	startS3Fake,
-	stopMailCatcher,
-	stopS3Fake
+	stopLocalService
 } from './setup.mjs';
 
 const cluster = clusters.test;
@@ -120,8 +119,8 @@ if (wants('e2e')) {
 	tally.push({ suite: 'playwright', passed, failed });
 }
 
-await stopS3Fake(s3Fake);
-await stopMailCatcher(mailCatcher);
+await stopLocalService(s3Fake);
+await stopLocalService(mailCatcher);
 
 const passed = tally.reduce((n, t) => n + t.passed, 0);
 const failed = tally.reduce((n, t) => n + t.failed, 0);
