@@ -12,6 +12,7 @@
 // Prints each figure in ms; exits non-zero when an answer is not what the file should give.
 import { spawn, spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
+import { readFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { hash } from '@node-rs/argon2';
@@ -43,26 +44,11 @@ async function sql(connectionString, text, params) {
 	}
 }
 
-const columns = [
-	'make',
-	'model',
-	'trim',
-	'year_from',
-	'year_to',
-	'stud_count',
-	'bolt_circle_mm',
-	'centre_bore_mm',
-	'thread',
-	'hex_mm',
-	'torque_nm',
-	'tire_front',
-	'tire_rear',
-	'placard_front_kpa',
-	'placard_rear_kpa',
-	'tpms',
-	'notes',
-	'source'
-];
+// The documented column format, as the README's example file states it (this script cannot import TypeScript).
+const columns = readFileSync(join(root, 'static', 'vehicle-data-example.csv'), 'utf8')
+	.split(/\r?\n/)[0]
+	.replace(/^\uFEFF/, '')
+	.split(',');
 
 /** Invented rows: coined make names, wheel facts in the trade's ranges, describing no real vehicle. */
 function generate(count, torqueOffset = 0) {

@@ -9,28 +9,10 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { withClient } from '../support/database';
 import { client, signIn, startInstances, stopInstances, type Instance } from '../support/instances';
 import { createTestStore, newJob, type TestStore } from '../support/store';
+import { vehicleColumns, type VehicleColumn } from '../../src/lib/schemas/vehicles';
 
-const columns = [
-	'make',
-	'model',
-	'trim',
-	'year_from',
-	'year_to',
-	'stud_count',
-	'bolt_circle_mm',
-	'centre_bore_mm',
-	'thread',
-	'hex_mm',
-	'torque_nm',
-	'tire_front',
-	'tire_rear',
-	'placard_front_kpa',
-	'placard_rear_kpa',
-	'tpms',
-	'notes',
-	'source'
-] as const;
-type Row = Record<(typeof columns)[number], string>;
+const columns = vehicleColumns;
+type Row = Record<VehicleColumn, string>;
 
 /** An invented make no real maker uses, unique to this run. */
 const MAKE = `Zzimport${process.pid}`;
