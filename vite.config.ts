@@ -16,8 +16,9 @@ export default defineConfig({
 	test: {
 		// Integration tests share one real database, so files run one after another.
 		fileParallelism: false,
-		include: ['src/**/*.test.ts', 'tests/integration/**/*.test.ts'],
-		testTimeout: 20_000,
-		hookTimeout: 30_000
+		// `npm run test:reliability` (LUGLINE_SUITE=reliability): faults, hostile input and load, slower by design.
+		...(process.env.LUGLINE_SUITE === 'reliability'
+			? { include: ['tests/reliability/**/*.test.ts'], testTimeout: 600_000, hookTimeout: 600_000 }
+			: { include: ['src/**/*.test.ts', 'tests/integration/**/*.test.ts'], testTimeout: 20_000, hookTimeout: 30_000 })
 	}
 });

@@ -8,10 +8,15 @@ declare global {
 			staff?: StaffSession;
 			/** Set when an API request carries a live bay-screen claim: the person standing at the bay. */
 			claim?: Claim;
+			/** Set first thing for every request (hooks.server.ts): sent back as `x-request-id` and used in the log. */
+			requestId?: string;
 		}
 		interface Error {
 			message: string;
 			code?: string;
+			/** The request id of an unexpected error, to find its details in the log. */
+			id?: string;
+			issues?: { path: string; message: string }[];
 		}
 	}
 }

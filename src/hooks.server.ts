@@ -1,5 +1,6 @@
 // Authentication once (Auth.js), then authorisation for every page load, form action and API route from the one
 // table in $lib/server/authz. Nothing reaches a route without passing both.
+import { randomUUID } from 'node:crypto';
 import { error, json, redirect, type Handle, type HandleServerError, type ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { apiSession, authHandle, type StaffSession } from '$lib/server/auth';
@@ -9,14 +10,78 @@ import * as claims from '$lib/server/db/claims';
 import { CLAIM_HEADER } from '$lib/schemas/bay';
 import { stop as stopListener } from '$lib/server/live/listener';
 import * as mailSender from '$lib/server/mail/sender';
+import { errorDetails, log } from '$lib/server/log';
+import { migrateOnStart } from '$lib/server/db/migrate';
 
 const isApi = (pathname: string) => pathname.startsWith('/api/');
 
-function refuse(pathname: string, status: 401 | 403 | 503, message: string, code: string) {
+function refuse(pathname: string, status: 401 | 403 | 404 | 503, message: string, code: string) {
 	if (isApi(pathname))
-		return json({ code, message }, { status, headers: status === 503 ? { 'Retry-After': '5' } : {} });
+		return json({ code, message, issues: [] }, { status, headers: status === 503 ? { 'Retry-After': '5' } : {} });
 	return new Response(message, { status, headers: { 'content-type': 'text/plain; charset=utf-8' } });
 }
+
+const mutating = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
+
+/**
+ * First for every request: a request id (sent back as `x-request-id` and quoted in error pages and the log), and
+ * cross-site request forgery refused for every method that changes something. SvelteKit's own check covers form
+ * posts only; a JSON or multipart call, or one without an Origin at all, must also come from the app's own pages
+ * (browsers send Origin with every such request). Auth.js's own HTTP endpoints are closed: sign-in and sign-out go
+ * through our form actions, which call Auth.js in-process.
+ */
+const guard: Handle = async ({ event, resolve }) => {
+	const requestId = randomUUID();
+	event.locals.requestId = requestId;
+	const { request, url } = event;
+	let response: Response;
+	if (url.pathname === '/auth' || url.pathname.startsWith('/auth/')) {
+		response = refuse(url.pathname, 404, 'Not found.', 'not_found');
+	} else if (mutating.has(request.method) && request.headers.get('origin') !== url.origin) {
+		log.warn(
+			{ requestId, method: request.method, path: url.pathname, origin: request.headers.get('origin') },
+			'cross-origin request refused'
+		);
+		response = isApi(url.pathname)
+			? json(
+					{
+						code: 'cross_origin',
+						message: 'This change must come from Lugline’s own pages: the request’s Origin is missing or foreign.',
+						issues: []
+					},
+					{ status: 403 }
+				)
+			: new Response('Cross-site form submissions are refused.', {
+					status: 403,
+					headers: { 'content-type': 'text/plain; charset=utf-8' }
+				});
+	} else {
+		response = await resolve(event);
+	}
+	try {
+		response.headers.set('x-request-id', requestId);
+	} catch {
+		// a response with immutable headers keeps its own
+	}
+	if (response.status >= 400 && response.status < 500) {
+		// Denials and refusals: who asked for what (never query strings or bodies, which can hold customers' details).
+		const staff = event.locals.staff;
+		log[response.status === 401 || response.status === 403 ? 'warn' : 'info'](
+			{
+				requestId,
+				method: request.method,
+				path: url.pathname,
+				status: response.status,
+				userId: staff?.userId,
+				storeId: staff?.storeId,
+				role: staff?.role,
+				claimedBy: event.locals.claim?.userId
+			},
+			'request refused'
+		);
+	}
+	return response;
+};
 
 const authorise: Handle = async ({ event, resolve }) => {
 	const { route, request, url } = event;
@@ -98,11 +163,12 @@ const authorise: Handle = async ({ event, resolve }) => {
 	return resolve(event);
 };
 
-export const handle = sequence(authHandle, authorise);
+export const handle = sequence(guard, authHandle, authorise);
 
 // Once per instance, before the first request: the outbox sender loop (src/lib/server/mail/sender.ts). It only
 // schedules its first pass, so a database or mail server that is down does not stop the app from starting.
-export const init: ServerInit = () => {
+export const init: ServerInit = async () => {
+	await migrateOnStart();
 	mailSender.start();
 };
 
@@ -112,9 +178,33 @@ process.on('sveltekit:shutdown', () => {
 	void Promise.allSettled([stopListener(), mailSender.stop()]).finally(() => closeDatabase());
 });
 
-export const handleError: HandleServerError = ({ error: e, status, message }) => {
+// What a client sees of an unexpected error: a generic sentence and the request id. The details (message, stack,
+// route) go to the log under the same id.
+export const handleError: HandleServerError = ({ error: e, event, status, message }) => {
+	const requestId = event.locals.requestId ?? randomUUID();
 	if (isDatabaseUnavailable(e))
-		return { message: 'The database is not answering. Try again in a few seconds.', code: 'database_unavailable' };
-	if (status >= 500) console.error(e);
-	return { message, code: status === 404 ? 'not_found' : 'internal' };
+		return {
+			message: 'The database is not answering. Try again in a few seconds.',
+			code: 'database_unavailable',
+			issues: []
+		};
+	if (status >= 500) {
+		log.error(
+			{
+				requestId,
+				method: event.request.method,
+				path: event.url.pathname,
+				route: event.route.id,
+				err: errorDetails(e)
+			},
+			'internal error'
+		);
+		return {
+			message: `Something went wrong on our side and nothing more is shown here. Reference: ${requestId}`,
+			code: 'internal',
+			id: requestId,
+			issues: []
+		};
+	}
+	return { message, code: status === 404 ? 'not_found' : 'internal', issues: [] };
 };

@@ -12,6 +12,7 @@ import { isDatabaseUnavailable } from './db';
 import * as users from './db/users';
 import * as signinFailures from './db/signin-failures';
 import { verifyDecoy, verifySecret } from './passwords';
+import { errorDetails, log } from './log';
 import { signInSchema } from '$lib/schemas/signin';
 import type { Role } from '$lib/roles';
 
@@ -29,28 +30,23 @@ export interface StaffSession {
 class WrongCredentials extends CredentialsSignin {
 	code = 'credentials';
 }
-class SlowedDown extends CredentialsSignin {
-	code = 'slowed';
-}
 class DatabaseDown extends CredentialsSignin {
 	code = 'unavailable';
 }
 
+/**
+ * Checks the password only. Slowing and counting happen around it in `signInWithPassword`, the one way in (the
+ * hooks close Auth.js's own HTTP endpoints).
+ */
 async function authorize(credentials: Partial<Record<string, unknown>>) {
 	const parsed = signInSchema.safeParse(credentials);
 	if (!parsed.success) throw new WrongCredentials();
 	const { email, password } = parsed.data;
-	const key = signinFailures.accountKey(email);
 	try {
-		if ((await signinFailures.lockedFor(key)) > 0) throw new SlowedDown();
 		const user = await users.findForSignIn(email);
 		const ok = user ? await verifySecret(user.passwordHash, password) : await verifyDecoy(password);
 		// A disabled account fails exactly like a wrong password: nothing tells whether it exists.
-		if (!user || !ok || !user.active) {
-			await signinFailures.recordFailure(key);
-			throw new WrongCredentials();
-		}
-		await signinFailures.clear(key);
+		if (!user || !ok || !user.active) throw new WrongCredentials();
 		return {
 			id: String(user.id),
 			name: user.name,
@@ -78,9 +74,8 @@ export function authConfig(): AuthConfig {
 		trustHost: true,
 		logger: {
 			error(error) {
-				// A refused sign-in is expected traffic: one line without a stack, and never the password.
-				if (error instanceof CredentialsSignin) console.warn(`[auth] sign-in refused (${error.code})`);
-				else console.error('[auth]', error);
+				// A refused sign-in is expected traffic, logged once by signInWithPassword; never the password.
+				if (!(error instanceof CredentialsSignin)) log.error({ err: errorDetails(error) }, 'auth: error');
 			}
 		},
 		secret: config().AUTH_SECRET,
@@ -164,13 +159,73 @@ export async function apiSession(request: Request, secure: boolean): Promise<Sta
 
 export const { handle: authHandle, signOut } = SvelteKitAuth(async () => authConfig());
 
-export type SignInResult = { ok: true } | { ok: false; code: 'credentials' | 'slowed' | 'unavailable' };
+export type SignInResult =
+	{ ok: true } | { ok: false; code: 'credentials' | 'unavailable' } | { ok: false; code: 'slowed'; retryAfter: number };
+
+/** The client's address as adapter-node reports it: the socket's, or a header only when ADDRESS_HEADER names one. */
+export function clientAddress(event: RequestEvent): string {
+	try {
+		return event.getClientAddress();
+	} catch {
+		return 'unknown';
+	}
+}
 
 /**
- * Signs in from our own form action. Auth.js's ready-made action throws on a wrong password (a 500 in SvelteKit),
- * so this calls Auth.js's core the same way and turns its answer into a result the page can show.
+ * Signs in from our own form action, the only way in. Each attempt is booked against the typed e-mail and against
+ * the client's address before the password is checked (src/lib/server/db/signin-failures.ts), so attempts in
+ * parallel or across instances cannot outrun the slowing; every attempt is logged with its outcome. Auth.js's
+ * ready-made action throws on a wrong password (a 500 in SvelteKit), so this calls Auth.js's core the same way and
+ * turns its answer into a result the page can show.
  */
 export async function signInWithPassword(event: RequestEvent, email: string, password: string): Promise<SignInResult> {
+	const started = performance.now();
+	const address = clientAddress(event);
+	const account = signinFailures.accountKey(email);
+	const result = await attempt(event, account, signinFailures.addressKey(address), email, password);
+	log.info(
+		{
+			requestId: event.locals.requestId,
+			email: account,
+			address,
+			outcome: result.ok ? 'signed_in' : result.code,
+			retryAfter: !result.ok && result.code === 'slowed' ? result.retryAfter : undefined,
+			ms: Math.round(performance.now() - started)
+		},
+		'sign-in attempt'
+	);
+	return result;
+}
+
+async function attempt(
+	event: RequestEvent,
+	account: string,
+	address: string,
+	email: string,
+	password: string
+): Promise<SignInResult> {
+	try {
+		const addressWait = await signinFailures.reserveAttempt(address, signinFailures.ADDRESS_FREE_FAILURES);
+		if (addressWait > 0) return { ok: false, code: 'slowed', retryAfter: addressWait };
+		const accountWait = await signinFailures.reserveAttempt(account);
+		if (accountWait > 0) return { ok: false, code: 'slowed', retryAfter: accountWait };
+		const result = await checkPassword(event, email, password);
+		if (result.ok) {
+			await signinFailures.clear(account);
+			await signinFailures.release(address);
+		}
+		return result;
+	} catch (error) {
+		if (isDatabaseUnavailable(error)) return { ok: false, code: 'unavailable' };
+		throw error;
+	}
+}
+
+async function checkPassword(
+	event: RequestEvent,
+	email: string,
+	password: string
+): Promise<{ ok: true } | { ok: false; code: 'credentials' | 'unavailable' }> {
 	const options: AuthConfig = { ...authConfig(), basePath: '/auth', skipCSRFCheck, raw };
 	setEnvDefaults(env, options);
 	const headers = new Headers(event.request.headers);
@@ -186,12 +241,10 @@ export async function signInWithPassword(event: RequestEvent, email: string, pas
 			redirect?: string;
 		};
 		const failure = response.redirect ? new URL(response.redirect, event.url.origin).searchParams.get('code') : null;
-		if (failure)
-			return { ok: false, code: failure === 'slowed' || failure === 'unavailable' ? failure : 'credentials' };
+		if (failure) return { ok: false, code: failure === 'unavailable' ? failure : 'credentials' };
 		for (const c of response.cookies ?? []) event.cookies.set(c.name, c.value, { path: '/', ...c.options });
 		return { ok: true };
 	} catch (error) {
-		if (error instanceof SlowedDown) return { ok: false, code: 'slowed' };
 		if (error instanceof DatabaseDown || isDatabaseUnavailable(error)) return { ok: false, code: 'unavailable' };
 		if (error instanceof CredentialsSignin) return { ok: false, code: 'credentials' };
 		throw error;

@@ -14,6 +14,7 @@ import type { Actor } from './db/actor';
 import * as photos from './db/photos';
 import { NotFound } from './errors';
 import * as storage from './storage';
+import { errorDetails, log } from './log';
 
 /** The largest photo accepted. BODY_SIZE_LIMIT (scripts/config.mjs) must stay a little above it. */
 export const MAX_PHOTO_BYTES = 10 * 1024 * 1024;
@@ -136,7 +137,7 @@ async function reencode(input: Uint8Array): Promise<Clean> {
 
 function storageDown(e: unknown): never {
 	if (e instanceof storage.StorageUnavailable) {
-		console.error(e.message);
+		log.error({ reason: e.message }, 'photo storage unavailable');
 		throw new ApiError(
 			503,
 			'storage_unavailable',
@@ -167,7 +168,9 @@ export async function add(actor: Actor, wheelId: number, request: Request): Prom
 		});
 	} catch (e) {
 		// No row, no object: nothing else would ever point at it.
-		await storage.remove(objectKey).catch((error) => console.error(`photo object ${objectKey} left behind:`, error));
+		await storage
+			.remove(objectKey)
+			.catch((error) => log.error({ objectKey, err: errorDetails(error) }, 'photo object left behind'));
 		throw e;
 	}
 }

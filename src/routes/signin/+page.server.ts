@@ -1,6 +1,7 @@
 import { fail, redirect } from '@sveltejs/kit';
 import type { Actions, PageServerLoad } from './$types';
-import { signInWithPassword } from '$lib/server/auth';
+import { clientAddress, signInWithPassword } from '$lib/server/auth';
+import { log } from '$lib/server/log';
 import { signInSchema } from '$lib/schemas/signin';
 
 /** Only same-site paths: an open redirect after sign-in would hand a phishing page a trusted link. */
@@ -26,15 +27,25 @@ export const actions: Actions = {
 		const parsed = signInSchema.safeParse(form);
 		const email = typeof form.email === 'string' ? form.email.slice(0, 254) : '';
 		if (!parsed.success) {
-			const errors: Record<string, string> = Object.fromEntries(
-				parsed.error.issues.map((i) => [String(i.path[0]), i.message])
+			const issues = parsed.error.issues.map((i) => ({ path: i.path.join('.') || '(form)', message: i.message }));
+			const errors: Record<string, string> = Object.fromEntries(issues.map((i) => [i.path, i.message]));
+			log.info(
+				{ requestId: event.locals.requestId, email, address: clientAddress(event), outcome: 'invalid' },
+				'sign-in attempt'
 			);
-			return fail(400, { email, errors, message: 'Check the highlighted fields.' });
+			return fail(400, { code: 'invalid_input', email, errors, issues, message: 'Check the highlighted fields.' });
 		}
 		const result = await signInWithPassword(event, parsed.data.email, parsed.data.password);
 		if (!result.ok) {
+			if (result.code === 'slowed') event.setHeaders({ 'retry-after': String(result.retryAfter) });
 			const status = result.code === 'slowed' ? 429 : result.code === 'unavailable' ? 503 : 400;
-			return fail(status, { email, errors: {} as Record<string, string>, message: messages[result.code] });
+			return fail(status, {
+				code: result.code === 'credentials' ? 'wrong_credentials' : result.code,
+				email,
+				errors: {} as Record<string, string>,
+				issues: [],
+				message: messages[result.code]
+			});
 		}
 		redirect(303, safeTarget(parsed.data.redirectTo));
 	}

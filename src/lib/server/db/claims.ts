@@ -56,7 +56,8 @@ export async function claim(
 	pin: string
 ): Promise<{ token: string; claim: Claim }> {
 	const bay = await bayOf(storeId, code);
-	const wait = await failures.lockedFor(pinKey(userId));
+	// Booked before the PIN is checked, so tries in parallel cannot outrun the slowing (signin-failures.ts).
+	const wait = await failures.reserveAttempt(pinKey(userId));
 	if (wait > 0) {
 		throw new ApiError(429, 'slowed', `Too many wrong PINs. Wait ${wait} s and try again.`, undefined, {
 			'retry-after': String(wait)
@@ -69,7 +70,6 @@ export async function claim(
 		.first();
 	const ok = user?.pin_hash && user.active ? await verifySecret(user.pin_hash, pin) : await verifyDecoy(pin);
 	if (!ok) {
-		await failures.recordFailure(pinKey(userId));
 		throw new Forbidden('That PIN is not right. Try again, or ask the lead to reset it.');
 	}
 	await failures.clear(pinKey(userId));

@@ -9,8 +9,50 @@ export const WINDOW_MINUTES = 15;
 /** The lock doubles with each failure past the free ones (1 s, 2 s, 4 s…) up to this ceiling. */
 export const MAX_LOCK_SECONDS = 15 * 60;
 
+/**
+ * Per client address (`addr:<address>`, the address adapter-node reports: the socket's, or the configured proxy
+ * header's), a larger budget: a store's screens share one public address, and a whole shift may mistype at 7 am.
+ */
+export const ADDRESS_FREE_FAILURES = 30;
+
 export function accountKey(email: string): string {
 	return email.trim().toLowerCase();
+}
+
+export function addressKey(address: string): string {
+	return `addr:${address}`;
+}
+
+/**
+ * Books one attempt for `key` before the password is checked, atomically: concurrent attempts (on one instance or
+ * several) queue on the row, each sees the ones before it, and once the key is locked no attempt is booked at all.
+ * A booked attempt counts as a failure until `release` or `clear` says it succeeded. Returns the seconds to wait
+ * when the key is locked, else 0.
+ */
+export async function reserveAttempt(key: string, freeFailures = FREE_FAILURES): Promise<number> {
+	const booked = await db().raw(
+		`INSERT INTO signin_failures AS f (account_key, failures, first_failed_at, locked_until)
+		 VALUES (?, 1, now(), NULL)
+		 ON CONFLICT (account_key) DO UPDATE SET
+		   failures = CASE WHEN f.first_failed_at < now() - make_interval(mins => ?) THEN 1 ELSE f.failures + 1 END,
+		   first_failed_at = CASE WHEN f.first_failed_at < now() - make_interval(mins => ?) THEN now() ELSE f.first_failed_at END,
+		   locked_until = CASE
+		     WHEN f.first_failed_at < now() - make_interval(mins => ?) OR f.failures + 1 <= ? THEN NULL
+		     ELSE now() + make_interval(secs => LEAST(?, power(2, f.failures + 1 - ? - 1)))
+		   END
+		 WHERE f.locked_until IS NULL OR f.locked_until <= now()
+		 RETURNING failures`,
+		[key, WINDOW_MINUTES, WINDOW_MINUTES, WINDOW_MINUTES, freeFailures, MAX_LOCK_SECONDS, freeFailures]
+	);
+	if (booked.rows.length > 0) return 0;
+	return Math.max(1, await lockedFor(key));
+}
+
+/** Takes back a booked attempt that succeeded (the address budget counts failures, not sign-ins). */
+export async function release(key: string): Promise<void> {
+	await db()('signin_failures')
+		.where({ account_key: key })
+		.update({ failures: db().raw('GREATEST(failures - 1, 0)') });
 }
 
 /** Seconds until this account key may try again, or 0. */

@@ -1,5 +1,6 @@
 // The fan-out inside one app instance: the listener hands each committed event to the open streams of its store.
 // An event is serialised once here, not once per screen.
+import { errorDetails, log } from '../log';
 
 export interface Delivered {
 	id: number;
@@ -24,6 +25,13 @@ export function subscribe(storeId: number, subscriber: Subscriber): () => void {
 	};
 }
 
+/** Open streams on this instance (the health check reports it; the stream tests watch it return to its baseline). */
+export function subscriberCount(): number {
+	let n = 0;
+	for (const set of byStore.values()) n += set.size;
+	return n;
+}
+
 const anyListeners = new Set<(storeId: number) => void>();
 
 /** Told of every event of every store (the board cache drops its copy). */
@@ -39,7 +47,7 @@ export function publish(event: Delivered): void {
 			subscriber(event);
 		} catch (error) {
 			// One broken stream must not stop the others.
-			console.error('[live] a subscriber failed', error);
+			log.error({ err: errorDetails(error) }, 'live: a subscriber failed');
 		}
 	}
 }

@@ -9,6 +9,7 @@ import { pruneEvents } from '../db/board';
 import { CHANNEL } from './events';
 import { publish } from './hub';
 import { frame } from './stream';
+import { errorDetails, log } from '../log';
 import type { Delivered } from './hub';
 
 const BATCH = 500;
@@ -33,7 +34,7 @@ async function pruneOnce() {
 			if (rows[0].got) await pruneEvents();
 		});
 	} catch (error) {
-		console.warn(`[live] pruning events failed: ${error instanceof Error ? error.message : error}`);
+		log.warn({ err: errorDetails(error) }, 'live: pruning events failed');
 	}
 }
 let stopped = false;
@@ -103,7 +104,7 @@ function scheduleReconnect() {
 	retryMs = Math.min(retryMs * 2, 5_000);
 	setTimeout(() => {
 		connect().catch((error) => {
-			console.warn(`[live] LISTEN connection failed (${error instanceof Error ? error.message : error}); retrying`);
+			log.warn({ err: errorDetails(error) }, 'live: LISTEN connection failed; retrying');
 			scheduleReconnect();
 		});
 	}, wait).unref();
@@ -136,7 +137,7 @@ export function catchUp(): Promise<void> {
 			} while (again);
 		} catch (error) {
 			// The database is away; the next notification, poll or reconnect tries again.
-			console.warn(`[live] catching up failed: ${error instanceof Error ? error.message : error}`);
+			log.warn({ err: errorDetails(error) }, 'live: catching up failed');
 		} finally {
 			fetching = null;
 		}

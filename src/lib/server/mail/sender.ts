@@ -18,6 +18,7 @@ import { config } from '../config';
 import { db } from '../db';
 import { render } from './notices';
 import { deliver, isPermanentRecipientError, recipientSchema, senderDomain, reset } from './transport';
+import { log } from '../log';
 
 type Outcome = 'none' | 'sent' | 'failed' | 'refused' | 'gave_up';
 
@@ -102,13 +103,13 @@ async function sendNext(): Promise<Outcome> {
 					last_error: reason(e),
 					send_after: trx.raw('now() + make_interval(secs => ?)', [backoffMs(attempt) / 1000])
 				});
-			if (!failing) console.warn(`[mail] sending failed (${reason(e)}); notices wait in the outbox and are retried`);
+			if (!failing) log.warn({ reason: reason(e) }, 'mail: sending failed; notices wait in the outbox and are retried');
 			failing = true;
 			return 'failed';
 		}
 		// Sent: the server has the message. Commit at once (see the top of this file).
 		await trx('outbox').where({ id }).update({ sent_at: trx.fn.now(), attempts: attempt });
-		if (failing) console.warn('[mail] sending works again');
+		if (failing) log.info('mail: sending works again');
 		failing = false;
 		return 'sent';
 	});
@@ -136,7 +137,7 @@ function schedule(ms: number) {
 				(more) => schedule(more ? 0 : config().MAIL_POLL_MS),
 				(error) => {
 					// The database is away (or a bug): log it, keep the loop alive, try again on the next poll.
-					console.warn(`[mail] outbox pass failed: ${reason(error)}`);
+					log.warn({ reason: reason(error) }, 'mail: outbox pass failed');
 					schedule(config().MAIL_POLL_MS);
 				}
 			)
@@ -157,7 +158,7 @@ export function start(): void {
 		first = Math.min(config().MAIL_POLL_MS, 1000);
 	} catch (error) {
 		// Not configured: say so now, and let the first pass say it again (config() throws until it is fixed).
-		console.warn(`[mail] ${reason(error)}`);
+		log.warn({ reason: reason(error) }, 'mail: not configured');
 	}
 	schedule(first);
 }

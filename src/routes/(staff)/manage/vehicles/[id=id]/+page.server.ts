@@ -1,5 +1,6 @@
 import { error, fail } from '@sveltejs/kit';
 import type { Actions, PageServerLoad } from './$types';
+import { databaseRefusal, findNul } from '$lib/server/api';
 import { isDatabaseUnavailable } from '$lib/server/db';
 import * as vehicles from '$lib/server/db/vehicles';
 import { NotAllowedNow, NotFound, VersionConflict } from '$lib/server/errors';
@@ -14,9 +15,23 @@ export const load: PageServerLoad = async ({ params }) => {
 
 type Errors = ReturnType<typeof fieldErrors>;
 
+const issuesOf = (errors: Errors) =>
+	Object.entries(errors).map(([path, message]) => ({ path, message: String(message) }));
+
 export const actions: Actions = {
 	save: async ({ request, params, locals }) => {
-		const form = await request.formData();
+		let form: FormData;
+		try {
+			form = await request.formData();
+		} catch {
+			return fail(400, {
+				code: 'unreadable_form',
+				values: Object.fromEntries(vehicleColumns.map((c) => [c, ''])),
+				errors: {} as Errors,
+				issues: [],
+				message: 'The form could not be read; reload the page and try again.'
+			});
+		}
 		const values = Object.fromEntries(
 			vehicleColumns.map((c) => {
 				const v = form.get(c);
@@ -27,36 +42,67 @@ export const actions: Actions = {
 		const noErrors: Errors = {};
 		if (!Number.isInteger(version) || version < 1)
 			return fail(400, {
+				code: 'invalid_input',
 				values,
 				errors: noErrors,
+				issues: [{ path: 'version', message: 'Missing version' }],
 				message: 'The form did not say which version of the record it showed: reload the page and edit again.'
 			});
-		const parsed = vehicleDataSchema.safeParse(values);
-		if (!parsed.success)
+		const nul = findNul(values);
+		if (nul !== null) {
+			const errors = { [nul]: 'Text may not contain NUL (\\0) characters.' } as Errors;
 			return fail(400, {
+				code: 'invalid_input',
 				values,
-				errors: fieldErrors(parsed.error),
+				errors,
+				issues: issuesOf(errors),
 				message: 'Check the marked fields: nothing was saved.'
 			});
+		}
+		const parsed = vehicleDataSchema.safeParse(values);
+		if (!parsed.success) {
+			const errors = fieldErrors(parsed.error);
+			return fail(400, {
+				code: 'invalid_input',
+				values,
+				errors,
+				issues: issuesOf(errors),
+				message: 'Check the marked fields: nothing was saved.'
+			});
+		}
 		try {
 			const record = await vehicles.update(actorOf(locals), Number(params.id), version, parsed.data);
 			return { saved: record.version, changed: record.version !== version };
 		} catch (e) {
 			if (e instanceof VersionConflict)
 				return fail(409, {
+					code: 'version_conflict',
 					values,
 					errors: noErrors,
+					issues: [],
 					current: e.current as VehicleRecord,
 					message:
 						'Someone else saved this record after you opened it, so nothing was saved. Their values are shown under each field that differs from yours; save again to replace them with yours.'
 				});
-			if (e instanceof NotAllowedNow) return fail(409, { values, errors: noErrors, message: e.message });
+			if (e instanceof NotAllowedNow)
+				return fail(409, { code: e.code, values, errors: noErrors, issues: [], message: e.message });
 			if (e instanceof NotFound) error(404, 'No such vehicle record: it may have been deleted.');
 			if (isDatabaseUnavailable(e))
 				return fail(503, {
+					code: 'database_unavailable',
 					values,
 					errors: noErrors,
+					issues: [],
 					message: 'The database is not answering, so nothing was saved. Try again in a few seconds.'
+				});
+			const refusal = databaseRefusal(e);
+			if (refusal)
+				return fail(refusal.status, {
+					code: refusal.code,
+					message: refusal.message,
+					values,
+					errors: noErrors,
+					issues: []
 				});
 			throw e;
 		}
