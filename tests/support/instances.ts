@@ -24,6 +24,13 @@ export interface Instance {
 	url: string;
 	port: number;
 	process: ChildProcess;
+	/** The instance's log so far: one JSON object per line on its standard output (src/lib/server/log.ts). */
+	logs: string[];
+}
+
+/** The parsed log entries of an instance (every line must be JSON: a line that is not fails the caller). */
+export function logEntries(instance: Instance): Record<string, any>[] {
+	return instance.logs.filter((l) => l.startsWith('{')).map((l) => JSON.parse(l));
 }
 
 async function healthy(url: string, deadline: number): Promise<void> {
@@ -40,7 +47,11 @@ async function healthy(url: string, deadline: number): Promise<void> {
 }
 
 /** Starts instances from the build; `env` adds or overrides settings (a test's own catcher port, a faster sender). */
-export async function startInstances(ports: number[], env: Record<string, string> = {}): Promise<Instance[]> {
+export async function startInstances(
+	ports: number[],
+	env: Record<string, string> = {},
+	{ healthyWithinMs = 30_000 } = {}
+): Promise<Instance[]> {
 	const instances = ports.map((port) => {
 		const url = `http://127.0.0.1:${port}`;
 		const child = spawn(process.execPath, ['build'], {
@@ -66,15 +77,26 @@ export async function startInstances(ports: number[], env: Record<string, string
 				AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true',
 				...env
 			},
-			stdio: ['ignore', 'ignore', 'pipe']
+			stdio: ['ignore', 'pipe', 'pipe']
 		});
-		child.stderr?.on('data', (d) => {
-			const text = String(d);
-			if (!/sign-in refused|\[live\]/.test(text)) process.stderr.write(`[instance ${port}] ${text}`);
+		const logs: string[] = [];
+		let partial = '';
+		child.stdout?.on('data', (d) => {
+			const lines = (partial + String(d)).split('\n');
+			partial = lines.pop() ?? '';
+			logs.push(...lines);
+			if (logs.length > 50_000) logs.splice(0, logs.length - 50_000);
 		});
-		return { url, port, process: child };
+		child.stderr?.on('data', (d) => process.stderr.write(`[instance ${port}] ${String(d)}`));
+		return { url, port, process: child, logs };
 	});
-	await Promise.all(instances.map((i) => healthy(i.url, Date.now() + 30_000)));
+	const deadline = Date.now() + healthyWithinMs;
+	try {
+		await Promise.all(instances.map((i) => healthy(i.url, deadline)));
+	} catch (error) {
+		await stopInstances(instances);
+		throw error;
+	}
 	return instances;
 }
 
