@@ -193,6 +193,26 @@ export function stopCluster(cluster) {
 	return true;
 }
 
+/** `pg_ctl restart` (fast mode: open connections are cut), with the options the cluster was started with. */
+export function restartCluster(cluster) {
+	const bin = postgresBin();
+	const { data, logFile } = clusterPaths(cluster);
+	if (!clusterRunning(cluster)) fail(`The ${cluster.name} cluster is not running.`);
+	const restarted = asPostgres(join(bin, 'pg_ctl'), [
+		'-D',
+		data,
+		'-m',
+		'fast',
+		'-l',
+		logFile,
+		'-w',
+		'-t',
+		'60',
+		'restart'
+	]);
+	if (restarted.status !== 0) fail(`PostgreSQL did not restart:\n${restarted.out}\nSee ${logFile}`);
+}
+
 /** Creates the database when missing (or anew when `fresh`), using pg once the npm dependencies are in. */
 export async function ensureDatabase(cluster, database, { fresh = false } = {}) {
 	const { default: pg } = await import('pg');

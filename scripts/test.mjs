@@ -2,7 +2,10 @@
 // then svelte-check, Vitest (unit + integration on the real PostgreSQL) and Playwright (Debian's Chromium). Photos go
 // to the tests' own S3 fake (.data/s3-test, port 54359) and customer e-mail to the tests' own mail catcher
 // (.data/mail-test, port 54379), both started empty before Vitest and stopped at the end.
-// Every suite runs even when an earlier one fails; the last line is `N passed, N failed` over all of them.
+// Then the reliability suite (tests/reliability: a database restart under load, hostile input, brute force, a
+// thousand streams, concurrent starts…), which `npm run test:reliability` runs alone.
+// Every suite runs even when an earlier one fails; the last line is `N passed, N failed` over all of them, after
+// each suite's own count and time.
 import { spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
@@ -33,7 +36,7 @@ import {
 const cluster = clusters.test;
 const testDatabaseUrl = databaseUrl(cluster);
 const resultsDir = join(dataDir, 'test-results');
-const only = process.argv.slice(2); // e.g. `npm test -- vitest` runs one suite
+const only = process.argv.slice(2); // e.g. `npm test -- vitest` runs one suite: check, vitest, e2e, reliability
 
 ensureDependencies();
 ensureChromium();
@@ -59,9 +62,12 @@ const env = {
 };
 const tally = [];
 
+let lastStepSeconds = 0;
 function step(name, command, args, extraEnv = {}) {
 	log(`── ${name} ──`);
+	const started = Date.now();
 	const result = spawnSync(command, args, { stdio: 'inherit', cwd: root, env: { ...env, ...extraEnv } });
+	lastStepSeconds = (Date.now() - started) / 1000;
 	return result.status ?? 1;
 }
 
@@ -85,28 +91,35 @@ if (wants('check')) {
 		'./tsconfig.json',
 		'--fail-on-warnings'
 	]);
-	tally.push({ suite: 'svelte-check', passed: status === 0 ? 1 : 0, failed: status === 0 ? 0 : 1 });
+	tally.push({
+		suite: 'svelte-check',
+		passed: status === 0 ? 1 : 0,
+		failed: status === 0 ? 0 : 1,
+		seconds: lastStepSeconds
+	});
 }
 
 // The integration tests start app instances from the build, so build before Vitest.
-if (wants('vitest') || wants('e2e')) ensureBuild();
-const s3Fake = wants('vitest') || wants('e2e') ? await startS3Fake(s3Fakes.test) : null;
-const mailCatcher = wants('vitest') || wants('e2e') ? await startMailCatcher(mailCatchers.test) : null;
+const needsApp = wants('vitest') || wants('e2e') || wants('reliability');
+if (needsApp) ensureBuild();
+const s3Fake = needsApp ? await startS3Fake(s3Fakes.test) : null;
+const mailCatcher = needsApp ? await startMailCatcher(mailCatchers.test) : null;
 
-if (wants('vitest')) {
-	const out = join(resultsDir, 'vitest.json');
-	const status = step('vitest', node, [
-		bin('vitest', 'vitest.mjs'),
-		'run',
-		'--reporter=default',
-		'--reporter=json',
-		`--outputFile.json=${out}`
-	]);
+function vitest(suite, extraEnv = {}) {
+	const out = join(resultsDir, `${suite}.json`);
+	const status = step(
+		suite,
+		node,
+		[bin('vitest', 'vitest.mjs'), 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${out}`],
+		extraEnv
+	);
 	const report = readJson(out);
 	const passed = report?.numPassedTests ?? 0;
 	const failed = (report?.numFailedTests ?? 0) + (status !== 0 && !report?.numFailedTests ? 1 : 0);
-	tally.push({ suite: 'vitest', passed, failed });
+	tally.push({ suite, passed, failed, seconds: lastStepSeconds });
 }
+
+if (wants('vitest')) vitest('vitest');
 
 if (wants('e2e')) {
 	const out = join(resultsDir, 'playwright.json');
@@ -116,8 +129,11 @@ if (wants('e2e')) {
 	const stats = readJson(out)?.stats;
 	const passed = (stats?.expected ?? 0) + (stats?.flaky ?? 0);
 	const failed = (stats?.unexpected ?? 0) + (status !== 0 && !stats?.unexpected ? 1 : 0);
-	tally.push({ suite: 'playwright', passed, failed });
+	tally.push({ suite: 'playwright', passed, failed, seconds: lastStepSeconds });
 }
+
+// Last: one of its tests restarts the tests' database cluster.
+if (wants('reliability')) vitest('reliability', { LUGLINE_SUITE: 'reliability' });
 
 await stopLocalService(s3Fake);
 await stopLocalService(mailCatcher);
@@ -125,6 +141,7 @@ await stopLocalService(mailCatcher);
 const passed = tally.reduce((n, t) => n + t.passed, 0);
 const failed = tally.reduce((n, t) => n + t.failed, 0);
 console.log('');
-for (const t of tally) console.log(`  ${t.suite.padEnd(13)} ${t.passed} passed, ${t.failed} failed`);
+for (const t of tally)
+	console.log(`  ${t.suite.padEnd(13)} ${t.passed} passed, ${t.failed} failed  (${t.seconds.toFixed(0)} s)`);
 console.log(`${passed} passed, ${failed} failed`);
 process.exit(failed > 0 || passed === 0 ? 1 : 0);
