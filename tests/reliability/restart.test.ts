@@ -6,7 +6,15 @@ import { spawn } from 'node:child_process';
 import pg from 'pg';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { testDatabaseUrl, withClient } from '../support/database';
-import { openStream, signIn, startInstances, stopInstances, type Instance, type Stream } from '../support/instances';
+import {
+	logEntries,
+	openStream,
+	signIn,
+	startInstances,
+	stopInstances,
+	type Instance,
+	type Stream
+} from '../support/instances';
 import { createTestStore, newJob, type TestStore } from '../support/store';
 
 let instances: Instance[] = [];
@@ -96,6 +104,7 @@ describe('a database restart under load', () => {
 			inFlight.add(p);
 		};
 		// About 100 changes a second, alternating instances: mostly new jobs, some edits of jobs made earlier.
+		const loadStarted = Date.now();
 		const load = (async () => {
 			while (running) {
 				const i = n % 2;
@@ -113,7 +122,8 @@ describe('a database restart under load', () => {
 				} else {
 					send('create', '/api/jobs', 'POST', newJob({ notes: `load ${n}` }), instances[i], cookies[i]);
 				}
-				await new Promise((r) => setTimeout(r, 10));
+				// On a 10 ms schedule (not 10 ms after each send), so slow moments are caught up.
+				await new Promise((r) => setTimeout(r, Math.max(0, loadStarted + n * 10 - Date.now())));
 			}
 		})();
 
@@ -189,6 +199,9 @@ describe('a database restart under load', () => {
 				`answers ${JSON.stringify(Object.fromEntries(statuses))}; outage ${upAt - restartAt} ms; slowest 503 ${slowest503} ms; ` +
 				`health back ${healthy.map((h) => `${h} ms`).join(' and ')} after the database; streams ${streamsBackMs} ms`
 		);
+		for (const i of instances)
+			for (const e of logEntries(i).filter((x) => x.level === 'error'))
+				console.log(`instance ${i.port} error: ${JSON.stringify(e).slice(0, 1500)}`);
 		for (const o of outcomes) {
 			expect([200, 201, 409, 503], `${o.kind} → ${o.status} ${JSON.stringify(o.body).slice(0, 200)}`).toContain(
 				o.status

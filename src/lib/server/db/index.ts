@@ -65,7 +65,9 @@ export function isDatabaseUnavailable(error: unknown): boolean {
 		if (e.name === 'KnexTimeoutError') return true;
 		if (
 			typeof e.message === 'string' &&
-			/Connection terminated|connection timeout|Timeout acquiring a connection|Connection ended/i.test(e.message)
+			/Connection terminated|connection timeout|Timeout acquiring a connection|Connection ended|not queryable|Client was closed/i.test(
+				e.message
+			)
 		)
 			return true;
 	}

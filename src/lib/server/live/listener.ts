@@ -101,7 +101,8 @@ async function connect(): Promise<void> {
 function scheduleReconnect() {
 	if (stopped) return;
 	const wait = retryMs;
-	retryMs = Math.min(retryMs * 2, 5_000);
+	// At most 2 s apart: after a database restart the screens are live again within about 2 s of it accepting connections.
+	retryMs = Math.min(retryMs * 2, 2_000);
 	setTimeout(() => {
 		connect().catch((error) => {
 			log.warn({ err: errorDetails(error) }, 'live: LISTEN connection failed; retrying');
