@@ -36,7 +36,12 @@ import {
 const cluster = clusters.test;
 const testDatabaseUrl = databaseUrl(cluster);
 const resultsDir = join(dataDir, 'test-results');
-const only = process.argv.slice(2); // e.g. `npm test -- vitest` runs one suite: check, vitest, e2e, reliability
+// e.g. `npm test -- vitest` runs one suite (check, vitest, e2e, reliability); a file name after it narrows Vitest's
+// suites to that file: `npm run test:reliability -- restart`.
+const args = process.argv.slice(2);
+const suites = ['check', 'vitest', 'e2e', 'reliability'];
+const only = args.filter((a) => suites.includes(a));
+const files = args.filter((a) => !suites.includes(a));
 
 ensureDependencies();
 ensureChromium();
@@ -110,7 +115,7 @@ function vitest(suite, extraEnv = {}) {
 	const status = step(
 		suite,
 		node,
-		[bin('vitest', 'vitest.mjs'), 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${out}`],
+		[bin('vitest', 'vitest.mjs'), 'run', ...files, '--reporter=default', '--reporter=json', `--outputFile.json=${out}`],
 		extraEnv
 	);
 	const report = readJson(out);
