@@ -196,6 +196,9 @@ describe('security headers', () => {
 		expect(overHttps).toMatch(/;\s*Secure/i);
 		expect(overHttps).toMatch(/;\s*HttpOnly/i);
 		expect(overHttps).toMatch(/;\s*SameSite=Lax/i);
+		const hsts = (await fetch(`${secure.url}/api/health`)).headers.get('strict-transport-security');
+		expect(hsts).toMatch(/max-age=\d{7,}/);
+		expect((await fetch(`${instance.url}/api/health`)).headers.get('strict-transport-security')).toBeNull();
 		// And the https instance's own origin check: the plain origin is foreign to it.
 		const foreign = await fetch(`${secure.url}/signin`, {
 			method: 'POST',

@@ -17,7 +17,7 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 
 const messages = {
 	credentials: 'That e-mail and password do not match an active account.',
-	slowed: 'Too many failed sign-ins for this account. Wait a minute, then try again.',
+	slowed: 'Too many failed sign-ins, for this account or from this place. Wait a minute, then try again.',
 	unavailable: 'The database is not answering. Try again in a few seconds.'
 } as const;
 
