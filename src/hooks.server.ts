@@ -34,30 +34,44 @@ const guard: Handle = async ({ event, resolve }) => {
 	const requestId = randomUUID();
 	event.locals.requestId = requestId;
 	const { request, url } = event;
+	const wantsJson = isApi(url.pathname) || /application\/json/i.test(request.headers.get('accept') ?? '');
+	const answer = (status: number, code: string, message: string) =>
+		wantsJson
+			? json({ code, message, issues: [] }, { status })
+			: new Response(message, { status, headers: { 'content-type': 'text/plain; charset=utf-8' } });
 	let response: Response;
 	if (url.pathname === '/auth' || url.pathname.startsWith('/auth/')) {
-		response = refuse(url.pathname, 404, 'Not found.', 'not_found');
+		response = answer(404, 'not_found', 'Not found.');
 	} else if (mutating.has(request.method) && request.headers.get('origin') !== url.origin) {
 		log.warn(
 			{ requestId, method: request.method, path: url.pathname, origin: request.headers.get('origin') },
 			'cross-origin request refused'
 		);
-		response = isApi(url.pathname)
-			? json(
-					{
-						code: 'cross_origin',
-						message: 'This change must come from Lugline’s own pages: the request’s Origin is missing or foreign.',
-						issues: []
-					},
-					{ status: 403 }
-				)
-			: new Response('Cross-site form submissions are refused.', {
-					status: 403,
-					headers: { 'content-type': 'text/plain; charset=utf-8' }
-				});
+		response = answer(
+			403,
+			'cross_origin',
+			'This change must come from Lugline’s own pages: the request’s Origin is missing or foreign.'
+		);
+	} else if (
+		request.method === 'POST' &&
+		!isApi(url.pathname) &&
+		!/^(application\/x-www-form-urlencoded|multipart\/form-data)\s*(;|$)/i.test(
+			request.headers.get('content-type') ?? ''
+		)
+	) {
+		// Form actions read form data; SvelteKit lets text/plain through as a form type, which then cannot be read.
+		response = answer(
+			415,
+			'unsupported_media_type',
+			'Send the form as a form (application/x-www-form-urlencoded or multipart/form-data).'
+		);
 	} else {
 		response = await resolve(event);
 	}
+	// A body nobody read (refused before reading, or by a route that takes none) is read to its end before the
+	// answer goes out: answering while the client is still sending makes Node reset the connection, and the client
+	// sees a network error instead of the 4xx. adapter-node still stops at BODY_SIZE_LIMIT.
+	if (request.body && !request.bodyUsed) await request.arrayBuffer().catch(() => undefined);
 	try {
 		response.headers.set('x-request-id', requestId);
 	} catch {

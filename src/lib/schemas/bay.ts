@@ -5,7 +5,8 @@ import { z } from 'zod';
 export const CLAIM_HEADER = 'x-lugline-claim';
 
 export const claimSchema = z.strictObject({
-	userId: z.number({ error: 'Pick who you are' }).int().positive(),
+	// At most PostgreSQL's `integer`: a larger id reached the users query and failed there (500).
+	userId: z.number({ error: 'Pick who you are' }).int().positive().max(2_147_483_647, 'Pick who you are'),
 	pin: z.string({ error: 'Enter your PIN' }).regex(/^\d{4,8}$/, 'A PIN is 4 to 8 digits')
 });
 export type ClaimInput = z.infer<typeof claimSchema>;

@@ -24,11 +24,19 @@ export function formValues(form: FormData, fields: readonly string[]): Record<st
 	);
 }
 
-const id = z.coerce.number({ error: 'Missing row id' }).int('Missing row id').positive('Missing row id');
+/** The largest value of PostgreSQL's `integer`, the type of every id and version column. */
+const INT4_MAX = 2_147_483_647;
+// Past INT4_MAX the database refuses the query (500): an id or version that large was never on a page.
+const id = z.coerce
+	.number({ error: 'Missing row id' })
+	.int('Missing row id')
+	.positive('Missing row id')
+	.max(INT4_MAX, 'No such row: reload the page');
 const version = z.coerce
 	.number({ error: 'The form did not say which version it showed: reload the page' })
 	.int()
-	.positive('The form did not say which version it showed: reload the page');
+	.positive('The form did not say which version it showed: reload the page')
+	.max(INT4_MAX, 'The form did not say which version it showed: reload the page');
 const checkbox = z.string().transform((v) => v === 'on' || v === 'true');
 
 // ---- Staff -------------------------------------------------------------------------------------------------

@@ -74,6 +74,16 @@ export function isDatabaseUnavailable(error: unknown): boolean {
 	return false;
 }
 
+/**
+ * PostgreSQL's own message of a failed statement. Knex puts the statement, bindings inlined, in front of it
+ * (`SELECT … - message`): fine for the log, never for a client.
+ */
+export function databaseMessage(error: unknown): string {
+	const message = String((error as { message?: unknown })?.message ?? '');
+	const cut = message.indexOf(' - ');
+	return cut >= 0 && /^\s*(select|insert|update|delete|with|call)\b/i.test(message) ? message.slice(cut + 3) : message;
+}
+
 /** Whether the database answers a trivial query within `timeoutMs`. */
 export async function ping(timeoutMs = 2000): Promise<{ up: true; ms: number } | { up: false; reason: string }> {
 	const started = performance.now();

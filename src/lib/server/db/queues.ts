@@ -8,7 +8,7 @@ import type { Knex } from 'knex';
 import type { MoveWheels } from '$lib/schemas/floor';
 import { NotAllowedNow, NotFound, VersionConflict } from '../errors';
 import type { Actor } from './actor';
-import { db } from './index';
+import { databaseMessage, db } from './index';
 import { wheelViews } from './views';
 
 export interface BayRow {
@@ -119,9 +119,10 @@ export async function move(actor: Actor, input: MoveWheels, attempt = 1): Promis
 		const result = rows[0].result as MoveResult;
 		return { wheels: result.wheels, eventId: Number(result.eventId) };
 	} catch (error) {
-		const { code, message } = error as { code?: string; message?: string };
+		const { code } = error as { code?: string };
+		const message = databaseMessage(error);
 		if (code === 'LG404') throw new NotFound(message);
-		if (code === 'LG422') throw new NotAllowedNow(message ?? 'Not allowed now.');
+		if (code === 'LG422') throw new NotAllowedNow(message || 'Not allowed now.');
 		if (code === 'LG409') throw new VersionConflict({ wheels: await wheelViews(db(), ids) });
 		// A deadlock or serialisation failure means nothing was written: one more try.
 		if ((code === '40P01' || code === '40001') && attempt < 4) return move(actor, input, attempt + 1);

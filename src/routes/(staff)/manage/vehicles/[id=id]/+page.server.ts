@@ -40,7 +40,7 @@ export const actions: Actions = {
 		);
 		const version = Number(form.get('version'));
 		const noErrors: Errors = {};
-		if (!Number.isInteger(version) || version < 1)
+		if (!Number.isInteger(version) || version < 1 || version > 2_147_483_647)
 			return fail(400, {
 				code: 'invalid_input',
 				values,
