@@ -14,6 +14,7 @@ import fc from 'fast-check';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import { authorisation } from '../../src/lib/server/authz';
 import { account } from '../support/accounts';
+import { urlFor } from '../support/routes';
 import { withClient } from '../support/database';
 import { signIn, startInstances, stopInstances, testS3, type Instance } from '../support/instances';
 import { createScratch, dropScratch, knexCli } from '../support/scratch';
@@ -99,27 +100,7 @@ async function readFacts(): Promise<Facts> {
 
 // ------------------------------------------------------------------------------------------------ addresses
 
-/** Concrete addresses for route ids; an id with parameters needs one here or the test fails (as the role matrix). */
-const examples: Record<string, string> = {
-	'/api/jobs/[id=id]': '/api/jobs/1',
-	'/api/jobs/[id=id]/summary': '/api/jobs/1/summary',
-	'/api/wheels/[id=id]': '/api/wheels/1',
-	'/api/wheels/[id=id]/record': '/api/wheels/1/record',
-	'/api/wheels/[id=id]/photos': '/api/wheels/1/photos',
-	'/api/vehicles/[id=id]': '/api/vehicles/1',
-	'/api/photos/[id=id]': '/api/photos/1',
-	'/api/bays/[code=code]/claim': '/api/bays/B1/claim',
-	'/(staff)/bay/[code=code]': '/bay/B1',
-	'/(staff)/manage/vehicles/[id=id]': '/manage/vehicles/1',
-	'/api/reports/[name]': '/api/reports/throughput'
-};
-
-function urlFor(routeId: string): string {
-	if (examples[routeId]) return examples[routeId];
-	if (routeId.includes('['))
-		throw new Error(`add an example address for ${routeId} to tests/reliability/hostile.test.ts`);
-	return routeId.replace(/\/\([^)]+\)/g, '') || '/';
-}
+// Concrete addresses for route ids: tests/support/routes.ts (shared with the role matrix).
 
 const MUTATING = ['POST', 'PUT', 'PATCH', 'DELETE'] as const;
 
