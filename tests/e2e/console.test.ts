@@ -61,10 +61,14 @@ test('a move from a stale screen is refused in words and the screen shows the re
 			['demo', wheels.rows.map((r) => r.id), bay.rows[0].id]
 		);
 	});
+	// Back online, but the stream stays cut until the move has been tried: otherwise a quick reconnect could bring
+	// the other lead's move first, and the screen would no longer be stale (a race the test lost now and then).
+	await lead.route('**/api/events', (route) => route.abort());
 	await lead.context().setOffline(false);
 	await lead.keyboard.press('2');
 
 	await expect(lead.getByRole('alert')).toContainText('Someone else changed this');
+	await lead.unroute('**/api/events');
 	// Once the stream is back, the screen shows where the wheels really are.
 	// (The focus pane names each wheel's bay; a long lane may draw only its first wheels.)
 	const wheels = lead.getByTestId('focus-wheels');
