@@ -15,6 +15,8 @@ import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import { authorisation } from '../../src/lib/server/authz';
 import { account } from '../support/accounts';
 import { urlFor } from '../support/routes';
+import { siUnits } from '../../src/lib/console/display';
+import { vehicleColumns } from '../../src/lib/schemas/vehicles';
 import { withClient } from '../support/database';
 import { signIn, startInstances, stopInstances, testS3, type Instance } from '../support/instances';
 import { createScratch, dropScratch, knexCli } from '../support/scratch';
@@ -383,14 +385,7 @@ const roleField: FormField = {
 };
 const bay = () => facts.bays[facts.bays.length - 1];
 
-const unitDefaults: Record<string, string> = {
-	pressure: 'kPa',
-	mass: 'g',
-	torque: 'N.m',
-	length: 'mm',
-	tread: 'mm',
-	force: 'N'
-};
+const unitDefaults: Record<string, string> = { ...siUnits };
 
 /** The fields of each form action, by `routeId ?/action`; `files: false` where a file would make a valid upload. */
 const formFields = (): Record<string, { fields: Record<string, FormField>; files?: boolean; allow?: number[] }> => ({
@@ -461,26 +456,7 @@ const formFields = (): Record<string, { fields: Record<string, FormField>; files
 		fields: {
 			version: { plausible: () => facts.vehicle.version, breaker: badIdText },
 			...Object.fromEntries(
-				[
-					'make',
-					'model',
-					'trim',
-					'year_from',
-					'year_to',
-					'stud_count',
-					'bolt_circle_mm',
-					'centre_bore_mm',
-					'thread',
-					'hex_mm',
-					'torque_nm',
-					'tire_front',
-					'tire_rear',
-					'placard_front_kpa',
-					'placard_rear_kpa',
-					'tpms',
-					'notes',
-					'source'
-				].map((c) => [
+				vehicleColumns.map((c) => [
 					c,
 					{
 						plausible: () => facts.vehicle[c] ?? '',

@@ -52,14 +52,7 @@ export function impliedUnits(units: StoreUnits): ImpliedUnits {
 
 type Quantity = keyof StoreUnits;
 
-const SI: Record<Quantity, Unit> = {
-	pressure: 'kPa',
-	mass: 'g',
-	torque: 'N.m',
-	length: 'mm',
-	tread: 'mm',
-	force: 'N'
-};
+const SI: Record<Quantity, Unit> = siUnits;
 const LABELS: Partial<Record<Unit, string>> = { 'N.m': 'N·m', 'lbf.ft': 'lbf·ft', in32: '/32 in', C: '°C', F: '°F' };
 // Finer than the spec sheets in display.ts: an answer here is worked on (0.94 psi per 10 °F, a 0.58 oz split), so it
 // keeps about four significant figures.

@@ -20,14 +20,7 @@ const digits: Partial<Record<Unit, number>> = {
 	N: 0,
 	lbf: 0
 };
-const siOf: Record<keyof StoreUnits, Unit> = {
-	pressure: 'kPa',
-	mass: 'g',
-	torque: 'N.m',
-	length: 'mm',
-	tread: 'mm',
-	force: 'N'
-};
+const siOf: Record<keyof StoreUnits, Unit> = siUnits;
 
 function one(value: number, unit: Unit): string {
 	return `${value.toFixed(digits[unit] ?? 1)} ${labels[unit] ?? unit}`;

@@ -6,6 +6,7 @@ import { parseDotDate } from '$lib/calc/dot-code';
 import { roundWeight } from '$lib/calc/balance';
 import { REPAIR_CAUTION, PUNCTURE_MAX_DIAMETER_MM, repairCheck } from '$lib/calc/repair';
 import { convert, type Unit } from '$lib/calc/units';
+import { siUnits } from '$lib/console/display';
 import type { StoreUnits } from '$lib/schemas/floor';
 import type { RecordFields } from '$lib/schemas/record';
 
@@ -66,14 +67,7 @@ const REPAIR_SOURCE =
 
 // ------------------------------------------------------------------ store units ↔ SI at the edge
 
-const SI: Record<keyof StoreUnits, Unit> = {
-	pressure: 'kPa',
-	mass: 'g',
-	torque: 'N.m',
-	length: 'mm',
-	tread: 'mm',
-	force: 'N'
-};
+const SI: Record<keyof StoreUnits, Unit> = siUnits;
 
 /** The record's measured values and the store-unit quantity each is entered in. Angles are degrees everywhere. */
 export const fieldQuantity = {

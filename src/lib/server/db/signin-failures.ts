@@ -24,27 +24,37 @@ export function addressKey(address: string): string {
 }
 
 /**
+ * Counts one failure for `key` in one atomic upsert (two instances failing at once both count): a new window after
+ * WINDOW_MINUTES, no lock for the free failures, then a lock that doubles. With `onlyWhenUnlocked`, nothing is
+ * counted while the key is locked, and the answer says whether it was.
+ */
+async function count(key: string, freeFailures: number, onlyWhenUnlocked: boolean): Promise<boolean> {
+	const stale = 'f.first_failed_at < now() - make_interval(mins => ?)';
+	const result = await db().raw(
+		`INSERT INTO signin_failures AS f (account_key, failures, first_failed_at, locked_until)
+		 VALUES (?, 1, now(), NULL)
+		 ON CONFLICT (account_key) DO UPDATE SET
+		   failures = CASE WHEN ${stale} THEN 1 ELSE f.failures + 1 END,
+		   first_failed_at = CASE WHEN ${stale} THEN now() ELSE f.first_failed_at END,
+		   locked_until = CASE
+		     WHEN ${stale} OR f.failures + 1 <= ? THEN NULL
+		     ELSE now() + make_interval(secs => LEAST(?, power(2, f.failures + 1 - ? - 1)))
+		   END
+		 ${onlyWhenUnlocked ? 'WHERE f.locked_until IS NULL OR f.locked_until <= now()' : ''}
+		 RETURNING failures`,
+		[key, WINDOW_MINUTES, WINDOW_MINUTES, WINDOW_MINUTES, freeFailures, MAX_LOCK_SECONDS, freeFailures]
+	);
+	return result.rows.length > 0;
+}
+
+/**
  * Books one attempt for `key` before the password is checked, atomically: concurrent attempts (on one instance or
  * several) queue on the row, each sees the ones before it, and once the key is locked no attempt is booked at all.
  * A booked attempt counts as a failure until `release` or `clear` says it succeeded. Returns the seconds to wait
  * when the key is locked, else 0.
  */
 export async function reserveAttempt(key: string, freeFailures = FREE_FAILURES): Promise<number> {
-	const booked = await db().raw(
-		`INSERT INTO signin_failures AS f (account_key, failures, first_failed_at, locked_until)
-		 VALUES (?, 1, now(), NULL)
-		 ON CONFLICT (account_key) DO UPDATE SET
-		   failures = CASE WHEN f.first_failed_at < now() - make_interval(mins => ?) THEN 1 ELSE f.failures + 1 END,
-		   first_failed_at = CASE WHEN f.first_failed_at < now() - make_interval(mins => ?) THEN now() ELSE f.first_failed_at END,
-		   locked_until = CASE
-		     WHEN f.first_failed_at < now() - make_interval(mins => ?) OR f.failures + 1 <= ? THEN NULL
-		     ELSE now() + make_interval(secs => LEAST(?, power(2, f.failures + 1 - ? - 1)))
-		   END
-		 WHERE f.locked_until IS NULL OR f.locked_until <= now()
-		 RETURNING failures`,
-		[key, WINDOW_MINUTES, WINDOW_MINUTES, WINDOW_MINUTES, freeFailures, MAX_LOCK_SECONDS, freeFailures]
-	);
-	if (booked.rows.length > 0) return 0;
+	if (await count(key, freeFailures, true)) return 0;
 	return Math.max(1, await lockedFor(key));
 }
 
@@ -64,20 +74,9 @@ export async function lockedFor(key: string): Promise<number> {
 	return row ? Number(row.seconds) : 0;
 }
 
-/** Counts one failure in a single atomic statement (two instances failing at once both count). */
+/** Counts one failure, locked or not. */
 export async function recordFailure(key: string): Promise<void> {
-	await db().raw(
-		`INSERT INTO signin_failures AS f (account_key, failures, first_failed_at, locked_until)
-		 VALUES (?, 1, now(), NULL)
-		 ON CONFLICT (account_key) DO UPDATE SET
-		   failures = CASE WHEN f.first_failed_at < now() - make_interval(mins => ?) THEN 1 ELSE f.failures + 1 END,
-		   first_failed_at = CASE WHEN f.first_failed_at < now() - make_interval(mins => ?) THEN now() ELSE f.first_failed_at END,
-		   locked_until = CASE
-		     WHEN f.first_failed_at < now() - make_interval(mins => ?) OR f.failures + 1 <= ? THEN NULL
-		     ELSE now() + make_interval(secs => LEAST(?, power(2, f.failures + 1 - ? - 1)))
-		   END`,
-		[key, WINDOW_MINUTES, WINDOW_MINUTES, WINDOW_MINUTES, FREE_FAILURES, MAX_LOCK_SECONDS, FREE_FAILURES]
-	);
+	await count(key, FREE_FAILURES, false);
 }
 
 export async function clear(key: string): Promise<void> {

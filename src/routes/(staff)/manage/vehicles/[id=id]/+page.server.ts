@@ -48,20 +48,12 @@ export const actions: Actions = {
 				issues: [{ path: 'version', message: 'Missing version' }],
 				message: 'The form did not say which version of the record it showed: reload the page and edit again.'
 			});
+		// PostgreSQL cannot store NUL in text: that field is marked like any other refused value.
 		const nul = findNul(values);
-		if (nul !== null) {
-			const errors = { [nul]: 'Text may not contain NUL (\\0) characters.' } as Errors;
-			return fail(400, {
-				code: 'invalid_input',
-				values,
-				errors,
-				issues: issuesOf(errors),
-				message: 'Check the marked fields: nothing was saved.'
-			});
-		}
 		const parsed = vehicleDataSchema.safeParse(values);
-		if (!parsed.success) {
-			const errors = fieldErrors(parsed.error);
+		if (nul !== null || !parsed.success) {
+			const errors =
+				nul !== null ? ({ [nul]: 'Text may not contain NUL (\\0) characters.' } as Errors) : fieldErrors(parsed.error!);
 			return fail(400, {
 				code: 'invalid_input',
 				values,
