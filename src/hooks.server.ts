@@ -5,7 +5,7 @@ import { error, json, redirect, type Handle, type HandleServerError, type Server
 import { sequence } from '@sveltejs/kit/hooks';
 import { apiSession, authHandle, type StaffSession } from '$lib/server/auth';
 import { allows, ruleFor } from '$lib/server/authz';
-import { close as closeDatabase, isDatabaseUnavailable } from '$lib/server/db';
+import { close as closeDatabase, isDatabaseUnavailable, shouldShed } from '$lib/server/db';
 import * as claims from '$lib/server/db/claims';
 import { CLAIM_HEADER } from '$lib/schemas/bay';
 import { stop as stopListener } from '$lib/server/live/listener';
@@ -65,6 +65,10 @@ const guard: Handle = async ({ event, resolve }) => {
 			'unsupported_media_type',
 			'Send the form as a form (application/x-www-form-urlencoded or multipart/form-data).'
 		);
+	} else if (isApi(url.pathname) && url.pathname !== '/api/health' && shouldShed()) {
+		// Load shedding after a database outage (src/lib/server/db/index.ts, shouldShed): the screen retries.
+		response = answer(503, 'busy', 'Lugline is catching up after a database hiccup. Try again in a moment.');
+		response.headers.set('retry-after', '1');
 	} else {
 		response = await resolve(event);
 	}

@@ -196,7 +196,7 @@ describe('a database restart under load', () => {
 		const seconds = (endedAt - restartAt + 3000) / 1000;
 		console.log(
 			`restart: ${outcomes.length} changes in about ${seconds.toFixed(0)} s (${(outcomes.length / seconds).toFixed(0)}/s); ` +
-				`answers ${JSON.stringify(Object.fromEntries(statuses))}; outage ${upAt - restartAt} ms; slowest 503 ${slowest503} ms; ` +
+				`answers ${JSON.stringify(Object.fromEntries(statuses))} (${unavailable.filter((o) => o.body.code === 'busy').length} of the 503s shed as busy); outage ${upAt - restartAt} ms; slowest 503 ${slowest503} ms; ` +
 				`health back ${healthy.map((h) => `${h} ms`).join(' and ')} after the database; streams ${streamsBackMs} ms`
 		);
 		for (const i of instances)
@@ -210,7 +210,8 @@ describe('a database restart under load', () => {
 		expect(unavailable.length, 'some changes met the outage').toBeGreaterThan(0);
 		for (const o of unavailable) {
 			expect(o.ms).toBeLessThan(5000);
-			expect(o.body.code).toBe('database_unavailable');
+			// The database away, or (just after it is back) new requests shed while the backlog drains.
+			expect(['database_unavailable', 'busy']).toContain(o.body.code);
 		}
 		for (const h of healthy) expect(h).toBeLessThan(10_000);
 		expect(streamsBackMs).toBeLessThan(10_000);

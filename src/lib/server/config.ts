@@ -30,7 +30,7 @@ const schema = z.object({
 	AUTH_SECRET: z.string().min(16, 'AUTH_SECRET must be set to a random string of at least 16 characters'),
 	DB_POOL_MAX: z.coerce.number().int().min(1).max(100).default(10),
 	// How long a request waits for a database connection before it answers 503.
-	DB_ACQUIRE_TIMEOUT_MS: z.coerce.number().int().min(100).max(60_000).default(2000),
+	DB_ACQUIRE_TIMEOUT_MS: z.coerce.number().int().min(100).max(60_000).default(1500),
 	// Photo storage: any S3-compatible store. The defaults are the local fake that `npm start` runs (scripts/s3-fake.mjs).
 	S3_ENDPOINT: z.url({ error: 'S3_ENDPOINT must be a URL such as https://s3.eu-central-1.amazonaws.com' }),
 	S3_REGION: z.string().min(1),

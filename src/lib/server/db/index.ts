@@ -54,8 +54,21 @@ const unavailableCodes = new Set([
 	'08006'
 ]);
 
-/** True when an error means "the database cannot be reached right now" rather than a bug or bad input. */
+let lastUnavailableAt = -Infinity;
+
+/**
+ * True when an error means "the database cannot be reached right now" rather than a bug or bad input. Every such
+ * answer is also noted (see `shouldShed`): the callers are exactly the places that turn it into a 503.
+ */
 export function isDatabaseUnavailable(error: unknown): boolean {
+	if (unavailable(error)) {
+		lastUnavailableAt = Date.now();
+		return true;
+	}
+	return false;
+}
+
+function unavailable(error: unknown): boolean {
 	for (
 		let e = error as { code?: string; name?: string; message?: string; cause?: unknown } | undefined, depth = 0;
 		e && depth < 5;
@@ -72,6 +85,19 @@ export function isDatabaseUnavailable(error: unknown): boolean {
 			return true;
 	}
 	return false;
+}
+
+/**
+ * Whether to refuse a new API request at once (hooks.server.ts answers 503 `busy`). After the database was away
+ * (a restart), the requests made meanwhile form a queue for connections; if new ones keep joining it, each waits
+ * until it times out and the instance stays overloaded long after the database is back. So while the database has
+ * failed in the last 30 s and more requests wait for a connection than four times the pool's size, new requests
+ * are shed and the queue drains. A burst in normal times (a thousand screens reconnecting) just queues.
+ */
+export function shouldShed(): boolean {
+	if (Date.now() - lastUnavailableAt > 30_000) return false;
+	const pool = instance?.client?.pool as { numPendingAcquires?: () => number } | undefined;
+	return (pool?.numPendingAcquires?.() ?? 0) > config().DB_POOL_MAX * 4;
 }
 
 /**
