@@ -15,11 +15,19 @@ import { migrateOnStart } from '$lib/server/db/migrate';
 
 const isApi = (pathname: string) => pathname.startsWith('/api/');
 
-function refuse(pathname: string, status: 401 | 403 | 404 | 503, message: string, code: string) {
-	if (isApi(pathname))
-		return json({ code, message, issues: [] }, { status, headers: status === 503 ? { 'Retry-After': '5' } : {} });
-	return new Response(message, { status, headers: { 'content-type': 'text/plain; charset=utf-8' } });
+/**
+ * A refusal from the hooks: `{ code, message, issues }` for the API and for callers that ask for JSON (a form
+ * posted by `enhance`), plain text otherwise.
+ */
+function refuse(request: Request, url: URL, status: number, code: string, message: string): Response {
+	const headers: Record<string, string> = status === 503 ? { 'retry-after': code === 'busy' ? '1' : '5' } : {};
+	if (isApi(url.pathname) || /application\/json/i.test(request.headers.get('accept') ?? ''))
+		return json({ code, message, issues: [] }, { status, headers });
+	return new Response(message, { status, headers: { ...headers, 'content-type': 'text/plain; charset=utf-8' } });
 }
+
+const unavailable = (request: Request, url: URL) =>
+	refuse(request, url, 503, 'database_unavailable', 'The database is not answering. Try again in a few seconds.');
 
 const mutating = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
 
@@ -34,11 +42,7 @@ const guard: Handle = async ({ event, resolve }) => {
 	const requestId = randomUUID();
 	event.locals.requestId = requestId;
 	const { request, url } = event;
-	const wantsJson = isApi(url.pathname) || /application\/json/i.test(request.headers.get('accept') ?? '');
-	const answer = (status: number, code: string, message: string) =>
-		wantsJson
-			? json({ code, message, issues: [] }, { status })
-			: new Response(message, { status, headers: { 'content-type': 'text/plain; charset=utf-8' } });
+	const answer = (status: number, code: string, message: string) => refuse(request, url, status, code, message);
 	let response: Response;
 	if (url.pathname === '/auth' || url.pathname.startsWith('/auth/')) {
 		response = answer(404, 'not_found', 'Not found.');
@@ -68,7 +72,6 @@ const guard: Handle = async ({ event, resolve }) => {
 	} else if (isApi(url.pathname) && url.pathname !== '/api/health' && shouldShed()) {
 		// Load shedding after a database outage (src/lib/server/db/index.ts, shouldShed): the screen retries.
 		response = answer(503, 'busy', 'Lugline is catching up after a database hiccup. Try again in a moment.');
-		response.headers.set('retry-after', '1');
 	} else {
 		response = await resolve(event);
 	}
@@ -108,7 +111,7 @@ const authorise: Handle = async ({ event, resolve }) => {
 
 	const decision = ruleFor(route.id, request.method, url.search);
 	if ('refused' in decision) {
-		return refuse(url.pathname, 403, 'This address is not open to anyone.', 'not_listed');
+		return refuse(request, url, 403, 'not_listed', 'This address is not open to anyone.');
 	}
 	if (decision.access === 'public') return resolve(event);
 
@@ -121,31 +124,20 @@ const authorise: Handle = async ({ event, resolve }) => {
 			staff = session?.staff;
 		}
 	} catch (e) {
-		if (isDatabaseUnavailable(e))
-			return refuse(
-				url.pathname,
-				503,
-				'The database is not answering. Try again in a few seconds.',
-				'database_unavailable'
-			);
+		if (isDatabaseUnavailable(e)) return unavailable(request, url);
 		throw e;
 	}
 	if (!staff) {
 		if (isApi(url.pathname) || request.method !== 'GET')
-			return refuse(url.pathname, 401, 'Sign in first.', 'signed_out');
+			return refuse(request, url, 401, 'signed_out', 'Sign in first.');
 		redirect(303, `/signin?redirectTo=${encodeURIComponent(url.pathname + url.search)}`);
 	}
 	if (staff.unverified) {
-		return refuse(
-			url.pathname,
-			503,
-			'The database is not answering. Try again in a few seconds.',
-			'database_unavailable'
-		);
+		return unavailable(request, url);
 	}
 	if (!allows(decision.access, staff.role)) {
 		if (isApi(url.pathname) || request.method !== 'GET') {
-			return refuse(url.pathname, 403, 'Your role may not do this.', 'forbidden');
+			return refuse(request, url, 403, 'forbidden', 'Your role may not do this.');
 		}
 		error(403, 'Your role may not open this page.');
 	}
@@ -158,24 +150,19 @@ const authorise: Handle = async ({ event, resolve }) => {
 		try {
 			claim = await claims.resolve(staff.storeId, token);
 		} catch (e) {
-			if (isDatabaseUnavailable(e))
-				return refuse(
-					url.pathname,
-					503,
-					'The database is not answering. Try again in a few seconds.',
-					'database_unavailable'
-				);
+			if (isDatabaseUnavailable(e)) return unavailable(request, url);
 			throw e;
 		}
 		if (!claim)
 			return refuse(
-				url.pathname,
+				request,
+				url,
 				401,
-				'This bay screen is no longer claimed. Claim it again with your PIN.',
-				'claim_ended'
+				'claim_ended',
+				'This bay screen is no longer claimed. Claim it again with your PIN.'
 			);
 		if (!allows(decision.access, claim.role))
-			return refuse(url.pathname, 403, `${claim.name}'s role may not do this.`, 'forbidden');
+			return refuse(request, url, 403, 'forbidden', `${claim.name}'s role may not do this.`);
 		event.locals.claim = claim;
 	}
 	return resolve(event);

@@ -69,6 +69,8 @@ function tooLarge() {
 	return new ApiError(413, 'too_large', `The request body is too large (JSON bodies may be up to 1 MiB).`);
 }
 
+export const NUL_MESSAGE = 'Text may not contain NUL (\\0) characters.';
+
 /**
  * The path of the first string (value or key) holding a NUL character, which PostgreSQL cannot store in text, or
  * null. Walks with its own stack: a body nested thousands deep must not overflow the call stack.
@@ -93,8 +95,7 @@ export function findNul(value: unknown): string | null {
 export function parse<T extends z.ZodType>(schema: T, value: unknown): z.infer<T> {
 	const nul = findNul(value);
 	if (nul !== null) {
-		const issues = [{ path: nul, message: 'Text may not contain NUL (\\0) characters.' }];
-		throw new ApiError(400, 'invalid_input', `Check ${nul}: text may not contain NUL (\\0) characters.`, issues);
+		throw new ApiError(400, 'invalid_input', `Check ${nul}: ${NUL_MESSAGE}`, [{ path: nul, message: NUL_MESSAGE }]);
 	}
 	const parsed = schema.safeParse(value);
 	if (!parsed.success) {

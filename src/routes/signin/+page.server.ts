@@ -17,9 +17,14 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 
 const messages = {
 	credentials: 'That e-mail and password do not match an active account.',
-	slowed: 'Too many failed sign-ins, for this account or from this place. Wait a minute, then try again.',
 	unavailable: 'The database is not answering. Try again in a few seconds.'
 } as const;
+
+/** How long to wait, in words a person at the counter can act on (the lock is 1 s to 15 min). */
+function slowedMessage(seconds: number): string {
+	const wait = seconds < 90 ? `${seconds} s` : `${Math.ceil(seconds / 60)} min`;
+	return `Too many failed sign-ins, for this account or from this place. Try again in ${wait}.`;
+}
 
 export const actions: Actions = {
 	default: async (event) => {
@@ -44,7 +49,7 @@ export const actions: Actions = {
 				email,
 				errors: {} as Record<string, string>,
 				issues: [],
-				message: messages[result.code]
+				message: result.code === 'slowed' ? slowedMessage(result.retryAfter) : messages[result.code]
 			});
 		}
 		redirect(303, safeTarget(parsed.data.redirectTo));

@@ -2,7 +2,7 @@
 // (stale version, not allowed now, gone) is a 4xx with a message a person can act on; nothing is saved in either case.
 import { fail, type ActionFailure } from '@sveltejs/kit';
 import type { z } from 'zod';
-import { databaseRefusal } from '$lib/server/api';
+import { databaseRefusal, findNul, NUL_MESSAGE } from '$lib/server/api';
 import { isDatabaseUnavailable } from '$lib/server/db';
 import { NotAllowedNow, NotFound, VersionConflict } from '$lib/server/errors';
 import { fieldErrors, formValues } from '$lib/schemas/manage';
@@ -22,6 +22,20 @@ export interface Refusal {
 	stale?: boolean;
 }
 
+/**
+ * The request's form data, or null when the body cannot be read as a form (a malformed multipart or URL-encoded
+ * body; other content types are refused with 415 before any action runs, in hooks.server.ts).
+ */
+export async function readForm(request: Request): Promise<FormData | null> {
+	try {
+		return await request.formData();
+	} catch {
+		return null;
+	}
+}
+
+export const UNREADABLE_FORM = 'The form could not be read; reload the page and try again.';
+
 export type Outcome = { form: string; id?: number; done: string } | ActionFailure<Refusal>;
 
 /**
@@ -36,19 +50,16 @@ export async function act<S extends z.ZodType>(
 	work: (input: z.infer<S>) => Promise<string>,
 	takenField?: string
 ): Promise<Outcome> {
-	let form: FormData;
-	try {
-		form = await request.formData();
-	} catch {
+	const form = await readForm(request);
+	if (!form)
 		return fail(400, {
 			code: 'unreadable_form',
 			form: formName,
 			values: {},
 			errors: {},
 			issues: [],
-			message: 'The form could not be read; reload the page and try again.'
+			message: UNREADABLE_FORM
 		});
-	}
 	const values = formValues(form, fields);
 	const rowId = Number(values.id) || undefined;
 	const refuse = (status: number, code: string, message: string, errors: Record<string, string> = {}, stale = false) =>
@@ -63,14 +74,9 @@ export async function act<S extends z.ZodType>(
 			stale
 		});
 	// PostgreSQL cannot store NUL in text; say which field rather than fail deeper down.
-	const withNul = Object.keys(values).filter((k) => values[k].includes('\u0000'));
-	if (withNul.length > 0)
-		return refuse(
-			400,
-			'invalid_input',
-			'Check the marked fields: nothing was saved.',
-			Object.fromEntries(withNul.map((k) => [k, 'Text may not contain NUL (\\0) characters.']))
-		);
+	const nul = findNul(values);
+	if (nul !== null)
+		return refuse(400, 'invalid_input', 'Check the marked fields: nothing was saved.', { [nul]: NUL_MESSAGE });
 	const parsed = schema.safeParse(values);
 	if (!parsed.success)
 		return refuse(400, 'invalid_input', 'Check the marked fields: nothing was saved.', fieldErrors(parsed.error));

@@ -1,6 +1,7 @@
 import { error, fail } from '@sveltejs/kit';
 import type { Actions, PageServerLoad } from './$types';
-import { databaseRefusal, findNul } from '$lib/server/api';
+import { databaseRefusal, findNul, NUL_MESSAGE } from '$lib/server/api';
+import { readForm, UNREADABLE_FORM } from '../../form-outcome';
 import { isDatabaseUnavailable } from '$lib/server/db';
 import * as vehicles from '$lib/server/db/vehicles';
 import { NotAllowedNow, NotFound, VersionConflict } from '$lib/server/errors';
@@ -20,18 +21,15 @@ const issuesOf = (errors: Errors) =>
 
 export const actions: Actions = {
 	save: async ({ request, params, locals }) => {
-		let form: FormData;
-		try {
-			form = await request.formData();
-		} catch {
+		const form = await readForm(request);
+		if (!form)
 			return fail(400, {
 				code: 'unreadable_form',
 				values: Object.fromEntries(vehicleColumns.map((c) => [c, ''])),
 				errors: {} as Errors,
 				issues: [],
-				message: 'The form could not be read; reload the page and try again.'
+				message: UNREADABLE_FORM
 			});
-		}
 		const values = Object.fromEntries(
 			vehicleColumns.map((c) => {
 				const v = form.get(c);
@@ -52,8 +50,7 @@ export const actions: Actions = {
 		const nul = findNul(values);
 		const parsed = vehicleDataSchema.safeParse(values);
 		if (nul !== null || !parsed.success) {
-			const errors =
-				nul !== null ? ({ [nul]: 'Text may not contain NUL (\\0) characters.' } as Errors) : fieldErrors(parsed.error!);
+			const errors = nul !== null ? ({ [nul]: NUL_MESSAGE } as Errors) : fieldErrors(parsed.error!);
 			return fail(400, {
 				code: 'invalid_input',
 				values,
